@@ -1,0 +1,132 @@
+/**
+ * Entry point of the fixed-effects linear model: validates the input, picks the computation path
+ * (balanced cell sums when valid, general Householder QR otherwise) and assembles the ANOVA table,
+ * residual diagnostics, effect sizes and covariance-analysis quantities.
+ *
+ * Degenerate situations and what is returned:
+ * - no observations: failure `no-data`; one observation: failure `single-observation`;
+ *   every response equal: failure `zero-variance` (there is no variation to analyse);
+ *   malformed input: failure `invalid-input`.
+ * - no residual degrees of freedom (e.g. one run per cell of a full model): a result, not a failure.
+ *   The table keeps every term's SS and df; the residual MS, every F and p, the residual SD and the
+ *   standardized and studentized residuals are null; note `no-error-df`.
+ * - residual sum of squares zero up to rounding (a perfect fit): a result with F and p null and note
+ *   `zero-residual-variance`.
+ * - aliased columns (empty cells, collinear covariates): a result; each affected term is listed in
+ *   `aliased` and tested on its estimable df; note `aliased-term`.
+ * p-values are upper tails of the F distribution computed directly, never as 1 - CDF.
+ */
+
+import { fUpperTail } from "../distributions/f-distribution.js";
+import { balancedLayout, balancedModelCore } from "./balanced-fast-path.js";
+import { caseStatistics } from "./case-statistics.js";
+import { mean } from "./design-matrix.js";
+import { termEffectSize } from "./effect-sizes.js";
+import { termSource, type ModelCore } from "./model-core.js";
+import { isZeroResidual } from "./nested-fits.js";
+import { qrModelCore } from "./qr-path.js";
+import type { AnovaTermRow, LinearModelInput, LinearModelResult, ModelFailure, ModelNote } from "./types.js";
+import { validateModelInput } from "./validate-input.js";
+
+/** Fits the model of `input` and returns its ANOVA table and diagnostics, or a failure with a reason. Never throws on bad input. */
+export function fitLinearModel(input: LinearModelInput): LinearModelResult | ModelFailure {
+  const invalid = validateModelInput(input);
+  if (invalid) return invalid;
+  const { y } = input;
+  const n = y.length;
+  if (n === 0) return { ok: false, code: "no-data", reason: "There are no observations to analyse." };
+  if (n === 1) {
+    return { ok: false, code: "single-observation", reason: "There is a single observation; an analysis of variance needs at least two." };
+  }
+  if (y.every((v) => v === y[0])) {
+    return { ok: false, code: "zero-variance", reason: `All ${n} observations have the same value; there is no variation to analyse.` };
+  }
+  const layout = balancedLayout(input);
+  const core = layout ? balancedModelCore(input, layout) : qrModelCore(input);
+  return assembleResult(input, core);
+}
+
+/** Turns a computation path's core into the public result (F, p, effect sizes, scaled standard errors). */
+export function assembleResult(input: LinearModelInput, core: ModelCore): LinearModelResult {
+  const { y } = input;
+  const n = y.length;
+  const notes: ModelNote[] = [...core.notes];
+  const residualDf = n - core.rank;
+  const residualSs = core.residualSs;
+  const residualMs = residualDf > 0 ? residualSs / residualDf : null;
+  const zeroResidual = isZeroResidual(residualSs, y);
+  const testable = residualMs !== null && !zeroResidual;
+  if (residualDf <= 0) {
+    notes.push({
+      code: "no-error-df",
+      message: "The model uses every degree of freedom (e.g. one run per cell of a full model): there is no residual to test against, so F and p are not available.",
+    });
+  } else if (zeroResidual) {
+    notes.push({
+      code: "zero-residual-variance",
+      message: "The model fits every observation exactly (zero residual variance), so F and p are not available.",
+    });
+  }
+  const fTest = (ss: number, df: number, errorSs: number, errorDf: number, usable: boolean) => {
+    const ms = df > 0 ? ss / df : null;
+    const f = usable && ms !== null && errorDf > 0 ? finiteOrNull(ms / (errorSs / errorDf)) : null;
+    const p = f !== null ? finiteOrNull(Math.min(1, Math.max(0, fUpperTail(f, df, errorDf)))) : null;
+    return { ms: finiteOrNull(ms), f, p };
+  };
+
+  const anova: AnovaTermRow[] = input.terms.map((term, t) => {
+    const ss = core.termSs[t]!;
+    const df = core.termDf[t]!;
+    return { source: termSource(input, term), df, ss, ...fTest(ss, df, residualSs, residualDf, testable) };
+  });
+
+  const centre = mean(y);
+  let totalSs = 0;
+  for (let i = 0; i < n; i++) totalSs += (y[i]! - centre) ** 2;
+  const explainedPlusResidual = core.modelSs + residualSs;
+  const rSquared = explainedPlusResidual > 0 ? finiteOrNull(core.modelSs / explainedPlusResidual) : null;
+  const residualSd = residualMs !== null ? Math.sqrt(residualMs) : null;
+  const cases = caseStatistics(core.residuals, core.leverage, residualSs, residualDf, testable);
+
+  return {
+    ok: true,
+    ssType: input.ssType,
+    method: core.method,
+    n,
+    rank: core.rank,
+    anova,
+    residual: { source: "Residual", df: residualDf, ss: residualSs, ms: residualMs },
+    total: { source: "Total", df: n - 1, ss: totalSs },
+    rSquared,
+    residualSd,
+    fitted: core.fitted,
+    residuals: core.residuals,
+    leverage: core.leverage,
+    standardized: cases.standardized,
+    studentized: cases.studentized,
+    effectSizes: anova.map((row) => termEffectSize(row.source, row.ss, row.df, totalSs, residualSs, residualMs)),
+    slopes: core.slopes.map((s) => ({
+      covariate: s.covariate,
+      estimate: s.estimate,
+      standardError: residualSd !== null ? finiteOrNull(s.seFactor * residualSd) : null,
+    })),
+    adjustedMeans: core.adjustedMeans.map((a) => ({
+      factor: a.factor,
+      means: a.means.map((m) => ({
+        level: m.level,
+        mean: m.mean,
+        standardError: m.seFactor !== null && residualSd !== null ? finiteOrNull(m.seFactor * residualSd) : null,
+      })),
+    })),
+    slopeHomogeneity: core.slopeHomogeneity.map((h) => {
+      const { f, p } = fTest(h.ss, h.df1, h.residualSs, h.df2, !h.zeroResidual && h.df2 > 0);
+      return { factor: h.factor, covariate: h.covariate, df1: h.df1, df2: h.df2, ss: h.ss, f, p };
+    }),
+    aliased: core.aliased,
+    notes,
+  };
+}
+
+function finiteOrNull(v: number | null): number | null {
+  return v !== null && Number.isFinite(v) ? v : null;
+}

@@ -1,0 +1,95 @@
+/**
+ * Raw (unadjusted) means of groups of observations with pooled confidence intervals.
+ *
+ * For a group of n runs with mean m, the interval is m -/+ t(1 - (1 - confidence)/2, df) sqrt(MSE / n),
+ * where MSE and df are the residual mean square and degrees of freedom of the fitted model (the pooled
+ * error estimate; Montgomery 2017, Design and Analysis of Experiments, 9th ed., eq. 3.12). The SD is the
+ * sample standard deviation (divisor n - 1), null for a group of one. Means and SDs use two passes
+ * over the data so that the rounding error does not grow with the group size.
+ */
+
+import { tQuantile } from "../distributions/t-distribution.js";
+
+/** Statistics of one group; mean and interval are null for an empty group, SD null for n < 2. */
+export interface GroupMean {
+  readonly group: number;
+  readonly n: number;
+  readonly mean: number | null;
+  readonly sd: number | null;
+  readonly lower: number | null;
+  readonly upper: number | null;
+}
+
+/** The pooled error estimate used for every interval: residual mean square and its df. */
+export interface PooledError {
+  readonly ms: number | null;
+  readonly df: number;
+}
+
+/**
+ * Computes n, mean, SD and the pooled confidence interval of each group `0..groupCount-1`, where
+ * `codes[i]` is observation i's group. Intervals are null when the pooled error is unavailable
+ * (no residual df) or the confidence is not strictly between 0 and 1.
+ */
+export function groupMeans(
+  y: Float64Array,
+  codes: Int32Array,
+  groupCount: number,
+  pooled: PooledError,
+  confidence = 0.95,
+): GroupMean[] {
+  const counts = new Float64Array(groupCount);
+  const sums = new Float64Array(groupCount);
+  const m = Math.min(y.length, codes.length);
+  for (let i = 0; i < m; i++) {
+    const g = codes[i]!;
+    if (g < 0 || g >= groupCount) continue;
+    counts[g]!++;
+    sums[g]! += y[i]!;
+  }
+  const means = new Float64Array(groupCount);
+  for (let g = 0; g < groupCount; g++) means[g] = counts[g]! > 0 ? sums[g]! / counts[g]! : 0;
+  // Second pass: correct the mean and accumulate squared deviations.
+  const corrections = new Float64Array(groupCount);
+  const squares = new Float64Array(groupCount);
+  for (let i = 0; i < m; i++) {
+    const g = codes[i]!;
+    if (g < 0 || g >= groupCount) continue;
+    const d = y[i]! - means[g]!;
+    corrections[g]! += d;
+    squares[g]! += d * d;
+  }
+  const usable =
+    pooled.ms !== null && Number.isFinite(pooled.ms) && pooled.ms >= 0 && pooled.df > 0 && confidence > 0 && confidence < 1;
+  const t = usable ? tQuantile(1 - (1 - confidence) / 2, pooled.df) : Number.NaN;
+  const out: GroupMean[] = [];
+  for (let g = 0; g < groupCount; g++) {
+    const n = counts[g]!;
+    if (n === 0) {
+      out.push({ group: g, n: 0, mean: null, sd: null, lower: null, upper: null });
+      continue;
+    }
+    const c = corrections[g]!;
+    const mean = means[g]! + c / n;
+    // Corrected two-pass variance (Chan, Golub & LeVeque 1983): (sum d^2 - (sum d)^2 / n) / (n - 1).
+    const sd = n > 1 ? Math.sqrt(Math.max(0, squares[g]! - (c * c) / n) / (n - 1)) : null;
+    const half = usable && Number.isFinite(t) ? t * Math.sqrt(pooled.ms! / n) : null;
+    out.push({ group: g, n, mean, sd, lower: half !== null ? mean - half : null, upper: half !== null ? mean + half : null });
+  }
+  return out;
+}
+
+/**
+ * Combines several factors' level codes into one cell code per observation, the first factor's
+ * levels varying slowest (cell = ((a * L_b) + b) * L_c + c ...).
+ */
+export function cellCodes(factors: readonly { readonly levelCount: number; readonly codes: Int32Array }[]): { codes: Int32Array; count: number } {
+  const n = factors.length > 0 ? factors[0]!.codes.length : 0;
+  const codes = new Int32Array(n);
+  let count = 1;
+  for (const f of factors) {
+    for (let i = 0; i < n; i++) codes[i] = codes[i]! * f.levelCount + f.codes[i]!;
+    count *= f.levelCount;
+  }
+  return { codes, count };
+}
