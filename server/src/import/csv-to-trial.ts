@@ -393,10 +393,9 @@ function smallestCellCount(
     counts.set(key, (counts.get(key) ?? 0) + 1);
   }
   if (combinations > rowCount || counts.size < combinations) {
-    const total = combinations > rowCount ? "more than the number of runs" : String(combinations);
     return {
       ok: false,
-      reason: `only ${counts.size} of the ${total} combinations of factor levels have runs (the factors are not fully crossed)`,
+      reason: `only ${counts.size} of the ${levelCounts.join(" x ")} combinations of factor levels have runs (the factors are not fully crossed)`,
     };
   }
   let smallest = Infinity;
