@@ -1,0 +1,46 @@
+/**
+ * `parseTrial`: text in, `TrialFile` out, never an exception.
+ */
+import type { SyntaxProblem, TrialFile } from "./ast.js";
+import type { TrialFileCstNode } from "./cst.generated.js";
+import { buildTrialFile, lexingProblems, parsingProblems } from "./cst-to-ast.js";
+import { trialParser } from "./parser.js";
+import { trialLexer } from "./tokens.js";
+
+/**
+ * Parses a `.trial` text. Always returns a `TrialFile`; whatever could not be read is in `problems`
+ * (code `syntax`, with a message that says how to fix it). Offsets refer to `text` as given: a leading
+ * byte-order mark is kept in `source` and read as white space, CRLF and tabs are accepted everywhere.
+ * One parser instance is reused across calls (the grammar is analysed once).
+ */
+export function parseTrial(text: string): TrialFile {
+  const source = typeof text === "string" ? text : String(text ?? "");
+  try {
+    const lexed = trialLexer.tokenize(source);
+    trialParser.setSource(source);
+    trialParser.input = lexed.tokens;
+    const cst = trialParser.trialFile() as TrialFileCstNode;
+    const problems: SyntaxProblem[] = [...lexingProblems(lexed), ...parsingProblems(source, trialParser.errors)];
+    return buildTrialFile(source, cst, problems);
+  } catch (error) {
+    // A bug of ours must not reach the user as an exception: report it where it cannot be missed.
+    const detail = error instanceof Error ? error.message : String(error);
+    return emptyTrialFile(source, {
+      code: "syntax",
+      message: `internal error while reading the file (please report it): ${detail}`,
+      span: { start: 0, end: 0 },
+    });
+  }
+}
+
+function emptyTrialFile(source: string, problem: SyntaxProblem): TrialFile {
+  return {
+    source,
+    header: {},
+    declarations: [],
+    responses: [],
+    factors: [],
+    covariates: [],
+    problems: [problem],
+  };
+}
