@@ -1,3 +1,19 @@
-// Placeholder: replaced by the CLI entry in the foundation work.
-process.stderr.write("trialbook: no verbs implemented yet\n");
-process.exit(2);
+// The CLI's process entry: the only place that reads process.argv and calls process.exit.
+import { runCli } from "./run-cli.js";
+
+async function readStdin(): Promise<string> {
+  const chunks: Buffer[] = [];
+  for await (const chunk of process.stdin) chunks.push(chunk as Buffer);
+  return Buffer.concat(chunks).toString("utf8");
+}
+
+void runCli(process.argv.slice(2), {
+  cwd: process.cwd(),
+  stdout: (text) => process.stdout.write(text),
+  stderr: (text) => process.stderr.write(text),
+  readStdin,
+  env: process.env,
+  isTty: process.stdout.isTTY === true,
+}).then((code) => {
+  process.exitCode = code;
+});

@@ -1,0 +1,40 @@
+import type { Span, TrialFile } from "../../../grammar/src/ast.js";
+import { parseTrial } from "../../../grammar/src/parse.js";
+import { analyzeResponse } from "./analyze-response.js";
+import { type AnalysisSettings, buildDesign } from "./build-design.js";
+import type { Diagnostic } from "./diagnostics.js";
+import type { DocumentAnalysis, ResponseAnalysis } from "./results.js";
+
+/**
+ * The engine's single entry point: parse, build the design, analyse every response.
+ * `defaults` are editor settings (the file wins over them); `overrides` are CLI flags (they win over the
+ * file). Never throws for any text.
+ */
+export function analyzeDocument(text: string, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}): DocumentAnalysis {
+  return analyzeParsed(parseTrial(text), defaults, overrides);
+}
+
+/** As `analyzeDocument`, for a file already parsed. */
+export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}): DocumentAnalysis {
+  const { design, diagnostics: structural } = buildDesign(file, defaults, overrides);
+  const diagnostics: Diagnostic[] = [...structural];
+  const responses: ResponseAnalysis[] = [];
+  // A file with errors in its design still gets an analysis of what could be read: the user sees both.
+  const termSpans = modelTermSpans(file);
+  design.responses.forEach((response, k) => {
+    const { result, diagnostics: found } = analyzeResponse(design, k, { response: response.span, terms: termSpans });
+    responses.push(result);
+    diagnostics.push(...found);
+  });
+  return { file, design, diagnostics, responses };
+}
+
+/** Spans of the terms written in `plan model`, keyed by their ANOVA source name. */
+function modelTermSpans(file: TrialFile): Map<string, Span> {
+  const spans = new Map<string, Span>();
+  for (const setting of file.plan?.settings ?? []) {
+    if (setting.kind !== "model") continue;
+    for (const term of setting.terms) spans.set(term.names.map((n) => n.text).join(" x "), term.span);
+  }
+  return spans;
+}

@@ -1,0 +1,235 @@
+import type { Span } from "../../../grammar/src/ast.js";
+import { centerDecimals } from "../stats/decimal/center-decimals.js";
+import { fitLinearModel } from "../stats/linear-model/fit-linear-model.js";
+import { groupMeans } from "../stats/linear-model/group-means.js";
+import type { LinearModelResult, ModelFactor, ModelTerm } from "../stats/linear-model/types.js";
+import { type Design, type DesignTerm, ValueStatus } from "./design.js";
+import { type Diagnostic, diagnostic } from "./diagnostics.js";
+import type { AdjustedLevelMean, AnovaRow, LevelMean, ResponseAnalysis } from "./results.js";
+
+/** Where analysis diagnostics about a term or response point: the model term if written, else the response. */
+export interface AnalysisAnchors {
+  readonly response: Span;
+  readonly terms: ReadonlyMap<string, Span>;
+}
+
+/**
+ * Analyses one response: selects its measured, non-excluded runs, centres the values by an exact decimal
+ * offset, fits the design's linear model and converts the fit into the plain result of the JSON contract.
+ * Degenerate situations become diagnostics; the result then carries `null`s or empty tables.
+ */
+export function analyzeResponse(design: Design, responseIndex: number, anchors: AnalysisAnchors): { result: ResponseAnalysis; diagnostics: Diagnostic[] } {
+  const response = design.responses[responseIndex]!;
+  const diagnostics: Diagnostic[] = [];
+  const { runs, settings } = design;
+
+  // Factors and covariates the model uses; a run is usable when all of them are known for it.
+  const usedFactors = uniqueIndices(design.terms, "factor");
+  const usedCovariates = uniqueIndices(design.terms, "covariate");
+  const meanFactors = design.factors.flatMap((f, i) => (f.role === "fixed" || f.role === "block" ? [i] : []));
+  const allFactors = [...new Set([...usedFactors, ...meanFactors])];
+  const status = runs.responseStatus[responseIndex]!;
+  const selected: number[] = [];
+  for (let r = 0; r < runs.count; r++) {
+    if (runs.excluded[r] || status[r] !== ValueStatus.Measured) continue;
+    if (allFactors.some((f) => runs.levels[f]![r]! < 0)) continue;
+    if (usedCovariates.some((c) => runs.covariateStatus[c]![r] !== ValueStatus.Measured)) continue;
+    selected.push(r);
+  }
+
+  const empty: ResponseAnalysis = {
+    name: response.name,
+    n: selected.length,
+    ssType: settings.ssType,
+    anova: [],
+    rSquared: null,
+    residualSd: null,
+    means: [],
+    effectSizes: [],
+    residuals: [],
+    slopes: [],
+    adjustedMeans: [],
+    slopeHomogeneity: [],
+    alpha: settings.alpha,
+    confidence: settings.confidence,
+  };
+  if (selected.length === 0) {
+    diagnostics.push(diagnostic("no-data", anchors.response, `'${response.name}' has no measured runs yet: nothing to analyse until values replace the ? marks.`));
+    return { result: empty, diagnostics };
+  }
+
+  const centred = centerDecimals(selected.map((r) => runs.responseTexts[responseIndex]![r]!));
+  if (!centred.ok) {
+    const r = selected[centred.index]!;
+    diagnostics.push(diagnostic("value-out-of-range", runs.responseSpans[responseIndex]![r] ?? anchors.response, `This value of '${response.name}' cannot be analysed: ${centred.reason}`));
+    return { result: empty, diagnostics };
+  }
+  const offset = centred.offset;
+
+  // Level codes are compacted to the levels that occur among the selected runs, so that a declared but
+  // unused level does not show up as an aliased column.
+  const compact = new Map<number, { codes: Int32Array; levels: number[] }>();
+  for (const f of allFactors) {
+    const present: number[] = [];
+    const map = new Int32Array(design.factors[f]!.levels.length).fill(-1);
+    for (const r of selected) {
+      const level = runs.levels[f]![r]!;
+      if (map[level] === -1) {
+        map[level] = 0;
+        present.push(level);
+      }
+    }
+    present.sort((a, b) => a - b);
+    present.forEach((level, i) => (map[level] = i));
+    compact.set(f, { codes: Int32Array.from(selected, (r) => map[runs.levels[f]![r]!]!), levels: present });
+  }
+
+  // Terms involving a factor seen at a single level cannot be estimated: drop them and say so.
+  const terms: DesignTerm[] = [];
+  for (const term of design.terms) {
+    const flat = term.variables.find((v) => v.kind === "factor" && compact.get(v.index)!.levels.length < 2);
+    if (flat) {
+      const f = design.factors[flat.index]!;
+      diagnostics.push(
+        diagnostic("aliased-term", anchors.terms.get(term.name) ?? anchors.response, `'${term.name}' is left out of the analysis of '${response.name}': its measured runs all have ${f.name}=${f.levels[compact.get(flat.index)!.levels[0]!]?.name ?? "?"}. Run other levels of '${f.name}' to estimate it.`),
+      );
+    } else terms.push(term);
+  }
+
+  const factorSlot = new Map(usedFactors.map((f, i) => [f, i] as const));
+  const covariateSlot = new Map(usedCovariates.map((c, i) => [c, i] as const));
+  const modelFactors: ModelFactor[] = usedFactors.map((f) => ({ name: design.factors[f]!.name, levelCount: compact.get(f)!.levels.length, codes: compact.get(f)!.codes }));
+  const modelTerms: ModelTerm[] = terms.map((t) => ({
+    factors: t.variables.flatMap((v) => (v.kind === "factor" ? [factorSlot.get(v.index)!] : [])),
+    covariates: t.variables.flatMap((v) => (v.kind === "covariate" ? [covariateSlot.get(v.index)!] : [])),
+  }));
+  const covariates = usedCovariates.map((c) => ({
+    name: design.covariates[c]!.name,
+    values: Float64Array.from(selected, (r) => Number(runs.covariateTexts[c]![r])),
+  }));
+
+  const fit = fitLinearModel({ y: centred.values, factors: modelFactors, covariates, terms: modelTerms, ssType: settings.ssType });
+  if (!fit.ok) {
+    diagnostics.push(diagnostic(fit.code === "zero-variance" ? "zero-variance" : fit.code === "single-observation" ? "single-observation" : "no-data", anchors.response, `'${response.name}' cannot be analysed: ${fit.reason}`));
+    return { result: { ...empty, means: rawMeans(design, meanFactors, compact, centred.values, offset, null, settings.confidence) }, diagnostics };
+  }
+
+  for (const a of fit.aliased) {
+    diagnostics.push(
+      diagnostic(
+        "aliased-term",
+        anchors.terms.get(a.source) ?? anchors.response,
+        a.estimableDf === 0
+          ? `'${a.source}' cannot be estimated for '${response.name}' with the runs available (no degrees of freedom left after the other terms): add runs for the missing combinations or remove the term from the model.`
+          : `'${a.source}' is only partly estimable for '${response.name}' (${a.estimableDf} of ${a.nominalDf} degrees of freedom), usually because of empty cells: its test uses the estimable part only.`,
+      ),
+    );
+  }
+  for (const note of fit.notes) {
+    if (note.code === "no-error-df") diagnostics.push(diagnostic("no-error-df", anchors.response, `'${response.name}': ${note.message}`));
+    else if (note.code === "zero-variance") diagnostics.push(diagnostic("zero-variance", anchors.response, `'${response.name}': ${note.message}`));
+  }
+
+  const anova: AnovaRow[] = [
+    ...fit.anova.map((row) => ({ source: row.source, df: row.df, ss: row.ss, ms: row.ms, f: row.f, p: row.p })),
+    { source: "Residual", df: fit.residual.df, ss: fit.residual.ss, ms: fit.residual.ms },
+    { source: "Total", df: fit.total.df, ss: fit.total.ss },
+  ];
+  const pooled = { ms: fit.residual.ms, df: fit.residual.df };
+
+  return {
+    result: {
+      ...empty,
+      anova,
+      rSquared: fit.rSquared,
+      residualSd: fit.residualSd,
+      means: rawMeans(design, meanFactors, compact, centred.values, offset, pooled, settings.confidence),
+      effectSizes: fit.effectSizes.map((e) => ({ term: e.source, etaSquared: e.etaSquared, partialEtaSquared: e.partialEtaSquared, omegaSquared: e.omegaSquared })),
+      residuals: selected.map((r, i) => ({
+        run: runs.ids[r]!,
+        row: r,
+        fitted: fit.fitted[i]! + offset,
+        residual: fit.residuals[i]!,
+        leverage: fit.leverage[i]!,
+        standardized: fit.standardized[i] ?? null,
+        studentized: fit.studentized[i] ?? null,
+      })),
+      slopes: fit.slopes.map((s) => ({ covariate: s.covariate, slope: s.estimate, standardError: s.standardError })),
+      adjustedMeans: adjustedMeans(design, fit, usedFactors, compact, offset),
+      slopeHomogeneity: fit.slopeHomogeneity.map((s) => ({ term: s.factor, covariate: s.covariate, df1: s.df1, df2: s.df2, f: s.f, p: s.p })),
+    },
+    diagnostics,
+  };
+}
+
+function uniqueIndices(terms: readonly DesignTerm[], kind: "factor" | "covariate"): number[] {
+  const seen = new Set<number>();
+  for (const t of terms) for (const v of t.variables) if (v.kind === kind) seen.add(v.index);
+  return [...seen].sort((a, b) => a - b);
+}
+
+/**
+ * Raw level means for every fixed and block factor, and cell means for every pair of fixed factors, with
+ * intervals from the model's pooled residual mean square.
+ */
+function rawMeans(
+  design: Design,
+  meanFactors: readonly number[],
+  compact: ReadonlyMap<number, { codes: Int32Array; levels: number[] }>,
+  y: Float64Array,
+  offset: number,
+  pooled: { ms: number | null; df: number } | null,
+  confidence: number,
+): LevelMean[] {
+  const out: LevelMean[] = [];
+  const error = pooled ?? { ms: null, df: 0 };
+  const emit = (term: string, labels: readonly string[], codes: Int32Array) => {
+    for (const g of groupMeans(y, codes, labels.length, error, confidence)) {
+      if (g.n === 0 || g.mean === null) continue;
+      out.push({
+        term,
+        level: labels[g.group]!,
+        n: g.n,
+        mean: g.mean + offset,
+        sd: g.sd,
+        lower: g.lower === null ? null : g.lower + offset,
+        upper: g.upper === null ? null : g.upper + offset,
+      });
+    }
+  };
+  for (const f of meanFactors) {
+    const c = compact.get(f)!;
+    emit(design.factors[f]!.name, c.levels.map((l) => design.factors[f]!.levels[l]!.name), c.codes);
+  }
+  const fixed = meanFactors.filter((f) => design.factors[f]!.role === "fixed");
+  for (let i = 0; i < fixed.length; i++) {
+    for (let j = i + 1; j < fixed.length; j++) {
+      const a = compact.get(fixed[i]!)!;
+      const b = compact.get(fixed[j]!)!;
+      const labels: string[] = [];
+      for (const la of a.levels) for (const lb of b.levels) labels.push(`${design.factors[fixed[i]!]!.levels[la]!.name} x ${design.factors[fixed[j]!]!.levels[lb]!.name}`);
+      const codes = Int32Array.from(a.codes, (ca, k) => ca * b.levels.length + b.codes[k]!);
+      emit(`${design.factors[fixed[i]!]!.name} x ${design.factors[fixed[j]!]!.name}`, labels, codes);
+    }
+  }
+  return out;
+}
+
+function adjustedMeans(
+  design: Design,
+  fit: LinearModelResult,
+  usedFactors: readonly number[],
+  compact: ReadonlyMap<number, { codes: Int32Array; levels: number[] }>,
+  offset: number,
+): AdjustedLevelMean[] {
+  const out: AdjustedLevelMean[] = [];
+  for (const group of fit.adjustedMeans) {
+    const f = usedFactors.find((i) => design.factors[i]!.name === group.factor);
+    if (f === undefined) continue;
+    const levels = compact.get(f)!.levels;
+    for (const m of group.means) {
+      out.push({ term: group.factor, level: design.factors[f]!.levels[levels[m.level]!]!.name, mean: m.mean === null ? null : m.mean + offset, standardError: m.standardError });
+    }
+  }
+  return out;
+}

@@ -1,0 +1,754 @@
+import type { DecimalNumber, FactorDecl, Name, PlanSetting, Span, TrialFile } from "../../../grammar/src/ast.js";
+import { cellText } from "../../../grammar/src/runs-table.js";
+import { isDecimalText } from "./decimal-text.js";
+import type {
+  Design,
+  DesignCovariate,
+  DesignFactor,
+  DesignResponse,
+  DesignRuns,
+  DesignSettings,
+  DesignTerm,
+  SumsOfSquaresType,
+  TermVariable,
+} from "./design.js";
+import { ValueStatus } from "./design.js";
+import { type Diagnostic, DiagnosticSink, diagnostic } from "./diagnostics.js";
+
+/** Analysis settings that can come from outside the file: editor settings (defaults) or CLI flags (overrides). */
+export interface AnalysisSettings {
+  readonly alpha?: number;
+  readonly confidence?: number;
+  readonly power?: number;
+  readonly ssType?: SumsOfSquaresType;
+}
+
+/** The defaults used when neither the file nor the caller says otherwise. */
+export const DEFAULT_SETTINGS = { alpha: 0.05, confidence: 0.95, power: 0.8, ssType: "III" } as const;
+
+export interface BuiltDesign {
+  readonly design: Design;
+  readonly diagnostics: readonly Diagnostic[];
+}
+
+/**
+ * Resolves names and assembles the design of a parsed file, reporting structural problems.
+ *
+ * Precedence of settings (design brief §3): `overrides` (a CLI flag) beat what the file says, which beats
+ * `defaults` (editor settings), which beat `DEFAULT_SETTINGS`.
+ */
+export function buildDesign(file: TrialFile, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}): BuiltDesign {
+  const sink = new DiagnosticSink();
+  for (const p of file.problems) sink.add(diagnostic("syntax", p.span, p.message));
+
+  const factors = resolveFactors(file, sink);
+  const covariates = resolveCovariates(file, factors, sink);
+  const responses = resolveResponses(file, factors, covariates, sink);
+  const settings = resolveSettings(file.plan?.settings ?? [], defaults, overrides, sink);
+  const { terms, explicit } = resolveTerms(file, factors, covariates, sink);
+  const runs = readRuns(file, factors, covariates, responses, sink);
+
+  const cellFactors = factors.flatMap((f, i) => (f.role !== "subject" && f.within === undefined ? [i] : []));
+  const hasFraction = (file.plan?.settings ?? []).some((s) => s.kind === "fraction");
+  const design: Design = {
+    title: file.header.title?.text,
+    factors,
+    covariates,
+    responses,
+    terms,
+    explicitModel: explicit,
+    settings,
+    runs,
+    cellFactors,
+    hasFraction,
+  };
+  if (runs.count > 0) checkCells(design, file, sink);
+  return { design, diagnostics: sink.finish() };
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Declarations
+
+function resolveFactors(file: TrialFile, sink: DiagnosticSink): DesignFactor[] {
+  const firstByName = new Map<string, Span>();
+  const decls = file.factors.filter((f): f is FactorDecl & { name: Name } => f.name !== undefined);
+  const indexByName = new Map<string, number>();
+  for (const decl of decls) {
+    const first = firstByName.get(decl.name.text);
+    if (first) {
+      sink.add(
+        diagnostic("duplicate-name", decl.name.span, `'${decl.name.text}' is declared twice: rename one of them.`, [
+          { span: first, message: `first declaration of '${decl.name.text}'` },
+        ]),
+      );
+      continue;
+    }
+    firstByName.set(decl.name.text, decl.name.span);
+    indexByName.set(decl.name.text, indexByName.size);
+  }
+
+  const result: DesignFactor[] = [];
+  const seen = new Set<string>();
+  for (const decl of decls) {
+    if (seen.has(decl.name.text)) continue;
+    seen.add(decl.name.text);
+    const levels: { name: string; span: Span; numeric?: number }[] = [];
+    const levelSpan = new Map<string, Span>();
+    for (const level of decl.levels) {
+      const prior = levelSpan.get(level.name.text);
+      if (prior) {
+        sink.add(
+          diagnostic(
+            "duplicate-level",
+            level.name.span,
+            `Level '${level.name.text}' is declared twice in factor '${decl.name.text}': remove the second one.`,
+            [{ span: prior, message: "first declaration of this level" }],
+          ),
+        );
+        continue;
+      }
+      levelSpan.set(level.name.text, level.name.span);
+      levels.push(level.number ? { name: level.name.text, span: level.name.span, numeric: level.number.value } : { name: level.name.text, span: level.name.span });
+    }
+    if (levels.length === 1) {
+      sink.add(
+        diagnostic("invalid-setting", decl.name.span, `Factor '${decl.name.text}' has one level: a factor needs at least two levels to be compared.`),
+      );
+    }
+    let control: number | undefined;
+    if (decl.control) {
+      const idx = levels.findIndex((l) => l.name === decl.control!.text);
+      if (idx < 0) sink.add(unknownLevel(decl.control.text, decl.control.span, decl.name.text, levels));
+      else control = idx;
+    }
+    let within: number | undefined;
+    if (decl.within) {
+      const idx = indexByName.get(decl.within.text);
+      if (idx === undefined || decl.within.text === decl.name.text) {
+        sink.add(diagnostic("unknown-factor", decl.within.span, `'${decl.within.text}' is not a declared factor: 'within' names the factor this one is nested in.`));
+      } else within = idx;
+    }
+    result.push({
+      name: decl.name.text,
+      span: decl.name.span,
+      role: decl.role,
+      levels,
+      ...(decl.unit ? { unit: decl.unit.text } : {}),
+      ...(control !== undefined ? { control } : {}),
+      ...(within !== undefined ? { within } : {}),
+    });
+  }
+  return result;
+}
+
+function resolveCovariates(file: TrialFile, factors: readonly DesignFactor[], sink: DiagnosticSink): DesignCovariate[] {
+  const result: DesignCovariate[] = [];
+  for (const decl of file.covariates) {
+    if (!decl.name) continue;
+    const clash = factors.find((f) => f.name === decl.name!.text) ?? result.find((c) => c.name === decl.name!.text);
+    if (clash) {
+      sink.add(
+        diagnostic("duplicate-name", decl.name.span, `'${decl.name.text}' is already declared: rename the covariate.`, [
+          { span: clash.span, message: `first declaration of '${decl.name.text}'` },
+        ]),
+      );
+      continue;
+    }
+    result.push({ name: decl.name.text, span: decl.name.span, ...(decl.unit ? { unit: decl.unit.text } : {}) });
+  }
+  return result;
+}
+
+function resolveResponses(
+  file: TrialFile,
+  factors: readonly DesignFactor[],
+  covariates: readonly DesignCovariate[],
+  sink: DiagnosticSink,
+): DesignResponse[] {
+  const detect = new Map<string, DecimalNumber>();
+  for (const s of file.plan?.settings ?? []) {
+    if (s.kind === "detect" && s.response && s.difference) detect.set(s.response.text, s.difference);
+  }
+  const result: DesignResponse[] = [];
+  for (const decl of file.responses) {
+    if (!decl.name) continue;
+    const name = decl.name.text;
+    const clash = factors.find((f) => f.name === name) ?? covariates.find((c) => c.name === name) ?? result.find((r) => r.name === name);
+    if (clash) {
+      sink.add(
+        diagnostic("duplicate-name", decl.name.span, `'${name}' is already declared: rename the response.`, [
+          { span: clash.span, message: `first declaration of '${name}'` },
+        ]),
+      );
+      continue;
+    }
+    const spec = decl.spec;
+    if (spec?.lower && spec.upper && spec.lower.value > spec.upper.value) {
+      sink.add(diagnostic("invalid-setting", spec.span, `The lower specification limit ${spec.lower.text} is above the upper ${spec.upper.text}: swap them.`));
+    }
+    const d = detect.get(name);
+    if (d && !(d.value > 0)) {
+      sink.add(diagnostic("invalid-setting", d.span, `'detect ${name}' needs a positive difference, not ${d.text}.`));
+    }
+    result.push({
+      name,
+      span: decl.name.span,
+      ...(decl.unit ? { unit: decl.unit.text } : {}),
+      ...(decl.goal ? { goal: decl.goal.kind } : {}),
+      ...(decl.goal?.kind === "target" && decl.goal.target ? { target: decl.goal.target.value } : {}),
+      ...(spec?.lower ? { specLower: spec.lower.value } : {}),
+      ...(spec?.upper ? { specUpper: spec.upper.value } : {}),
+      ...(d && d.value > 0 ? { detect: d.value } : {}),
+    });
+  }
+  for (const s of file.plan?.settings ?? []) {
+    if (s.kind === "detect" && s.response && !result.some((r) => r.name === s.response!.text)) {
+      sink.add(diagnostic("unknown-response", s.response.span, `'${s.response.text}' is not a declared response${listOf(result.map((r) => r.name))}.`));
+    }
+  }
+  return result;
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Plan settings
+
+function resolveSettings(
+  settings: readonly PlanSetting[],
+  defaults: AnalysisSettings,
+  overrides: AnalysisSettings,
+  sink: DiagnosticSink,
+): DesignSettings {
+  const fromFile = new Set<"alpha" | "confidence" | "power" | "sums-of-squares">();
+  let replicates: number | undefined;
+  let seed: number | undefined;
+  let alpha: number | undefined;
+  let confidence: number | undefined;
+  let power: number | undefined;
+  let ssType: SumsOfSquaresType | undefined;
+
+  const probability = (value: DecimalNumber | undefined, what: string): number | undefined => {
+    if (!value) return undefined;
+    if (value.value > 0 && value.value < 1) return value.value;
+    sink.add(diagnostic("invalid-setting", value.span, `${what} must lie strictly between 0 and 1, not ${value.text}.`));
+    return undefined;
+  };
+  const wholeNumber = (value: DecimalNumber | undefined, what: string, min: number): number | undefined => {
+    if (!value) return undefined;
+    if (Number.isSafeInteger(value.value) && value.value >= min) return value.value;
+    sink.add(diagnostic("invalid-setting", value.span, `${what} must be a whole number of at least ${min}, not ${value.text}.`));
+    return undefined;
+  };
+
+  for (const s of settings) {
+    switch (s.kind) {
+      case "replicates":
+        replicates = wholeNumber(s.value, "replicates", 1) ?? replicates;
+        break;
+      case "seed":
+        seed = wholeNumber(s.value, "seed", 0) ?? seed;
+        break;
+      case "centre-points":
+        wholeNumber(s.value, "centre-points", 0);
+        break;
+      case "alpha":
+        alpha = probability(s.value, "alpha (the significance level)") ?? alpha;
+        if (s.value) fromFile.add("alpha");
+        break;
+      case "confidence":
+        confidence = probability(s.value, "confidence") ?? confidence;
+        if (s.value) fromFile.add("confidence");
+        break;
+      case "power":
+        power = probability(s.value, "power (the target probability of detecting the difference)") ?? power;
+        if (s.value) fromFile.add("power");
+        break;
+      case "sums-of-squares":
+        if (s.value) {
+          if (s.value.text === "I" || s.value.text === "II" || s.value.text === "III") {
+            ssType = s.value.text;
+            fromFile.add("sums-of-squares");
+          } else {
+            sink.add(diagnostic("invalid-setting", s.value.span, `sums-of-squares is I, II or III, not '${s.value.text}'.`));
+          }
+        }
+        break;
+      default:
+        break;
+    }
+  }
+  return {
+    ...(replicates !== undefined ? { replicates } : {}),
+    ...(seed !== undefined ? { seed } : {}),
+    alpha: overrides.alpha ?? alpha ?? defaults.alpha ?? DEFAULT_SETTINGS.alpha,
+    confidence: overrides.confidence ?? confidence ?? defaults.confidence ?? DEFAULT_SETTINGS.confidence,
+    power: overrides.power ?? power ?? defaults.power ?? DEFAULT_SETTINGS.power,
+    ssType: overrides.ssType ?? ssType ?? defaults.ssType ?? DEFAULT_SETTINGS.ssType,
+    fromFile,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Model terms
+
+function termName(variables: readonly TermVariable[], factors: readonly DesignFactor[], covariates: readonly DesignCovariate[]): string {
+  return variables.map((v) => (v.kind === "factor" ? factors[v.index]!.name : covariates[v.index]!.name)).join(" x ");
+}
+
+/**
+ * The default model (design brief §3): fixed factors fully crossed, other factors and covariates
+ * additive. Covariates and blocks come first so that sequential (Type I) sums of squares adjust the
+ * treatments for them, the usual order for blocked and covariance analyses.
+ */
+function defaultTerms(factors: readonly DesignFactor[], covariates: readonly DesignCovariate[]): DesignTerm[] {
+  const terms: DesignTerm[] = [];
+  const add = (variables: TermVariable[]) => terms.push({ name: termName(variables, factors, covariates), variables });
+  covariates.forEach((_, index) => add([{ kind: "covariate", index }]));
+  factors.forEach((f, index) => {
+    if (f.role !== "fixed") add([{ kind: "factor", index }]);
+  });
+  const fixed = factors.flatMap((f, i) => (f.role === "fixed" ? [i] : []));
+  // All non-empty subsets of the fixed factors, by size, then in declaration order.
+  for (let size = 1; size <= fixed.length; size++) {
+    for (const subset of combinations(fixed, size)) add(subset.map((index) => ({ kind: "factor", index })));
+  }
+  return terms;
+}
+
+function combinations(items: readonly number[], size: number): number[][] {
+  if (size === 0) return [[]];
+  const out: number[][] = [];
+  items.forEach((item, i) => {
+    for (const rest of combinations(items.slice(i + 1), size - 1)) out.push([item, ...rest]);
+  });
+  return out;
+}
+
+function resolveTerms(
+  file: TrialFile,
+  factors: readonly DesignFactor[],
+  covariates: readonly DesignCovariate[],
+  sink: DiagnosticSink,
+): { terms: DesignTerm[]; explicit: boolean } {
+  const modelSetting = file.plan?.settings.find((s) => s.kind === "model");
+  if (!modelSetting || modelSetting.kind !== "model" || modelSetting.terms.length === 0) {
+    return { terms: defaultTerms(factors, covariates), explicit: false };
+  }
+  const terms: DesignTerm[] = [];
+  const seen = new Set<string>();
+  for (const term of modelSetting.terms) {
+    const variables: TermVariable[] = [];
+    let ok = true;
+    for (const name of term.names) {
+      const f = factors.findIndex((x) => x.name === name.text);
+      const c = covariates.findIndex((x) => x.name === name.text);
+      if (f >= 0) variables.push({ kind: "factor", index: f });
+      else if (c >= 0) variables.push({ kind: "covariate", index: c });
+      else {
+        ok = false;
+        sink.add(
+          diagnostic(
+            "unknown-factor",
+            name.span,
+            `'${name.text}' in the model is not a declared factor or covariate${listOf([...factors.map((x) => x.name), ...covariates.map((x) => x.name)])}.`,
+          ),
+        );
+      }
+    }
+    if (!ok || variables.length === 0) continue;
+    const key = variables.map((v) => `${v.kind}:${v.index}`).sort().join(",");
+    if (new Set(variables.map((v) => `${v.kind}:${v.index}`)).size !== variables.length) {
+      sink.add(diagnostic("invalid-setting", term.span, "A model term names the same variable twice: write each name once."));
+      continue;
+    }
+    if (seen.has(key)) {
+      sink.add(diagnostic("invalid-setting", term.span, "This model term is listed twice: remove one."));
+      continue;
+    }
+    seen.add(key);
+    terms.push({ name: termName(variables, factors, covariates), variables });
+  }
+  return { terms, explicit: true };
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Runs
+
+type ColumnRole =
+  | { kind: "id" }
+  | { kind: "factor"; index: number }
+  | { kind: "covariate"; index: number }
+  | { kind: "response"; index: number }
+  | { kind: "unknown" };
+
+function readRuns(
+  file: TrialFile,
+  factors: readonly DesignFactor[],
+  covariates: readonly DesignCovariate[],
+  responses: readonly DesignResponse[],
+  sink: DiagnosticSink,
+): DesignRuns {
+  const table = file.runs;
+  const count = table?.rows.count ?? 0;
+  const levels = factors.map(() => new Int32Array(count).fill(-1));
+  const covariateTexts = covariates.map(() => new Array<string>(count).fill(""));
+  const covariateStatus = covariates.map(() => new Uint8Array(count).fill(ValueStatus.Invalid));
+  const responseTexts = responses.map(() => new Array<string>(count).fill(""));
+  const responseStatus = responses.map(() => new Uint8Array(count).fill(ValueStatus.Invalid));
+  const responseSpans = responses.map(() => new Array<Span | undefined>(count).fill(undefined));
+  const excluded = new Uint8Array(count);
+  const ids: string[] = new Array<string>(count);
+  const rowSpans: Span[] = new Array<Span>(count);
+  const runs: DesignRuns = { count, ids, rowSpans, levels, covariateTexts, covariateStatus, responseTexts, responseStatus, responseSpans, excluded };
+  if (!table) {
+    if (factors.length > 0 || responses.length > 0) {
+      // No table yet is a normal stage of planning, not a problem worth a squiggle.
+    }
+    return runs;
+  }
+
+  const roles = mapColumns(table.columns, table.responseStart, factors, covariates, responses, sink);
+  const source = file.source;
+  const rows = table.rows;
+  const levelIndex = factors.map((f) => new Map(f.levels.map((l, i) => [l.name, i] as const)));
+  const firstIdRow = new Map<string, number>();
+  const leftCount = table.responseStart;
+  const rightCount = table.columns.length - table.responseStart;
+  const idColumn = roles.findIndex((r) => r.kind === "id");
+
+  for (let r = 0; r < count; r++) {
+    const rowSpan = { start: rows.rowStart[r]!, end: rows.rowEnd[r]! };
+    rowSpans[r] = rowSpan;
+    if (rows.excluded.has(r)) excluded[r] = 1;
+    const first = rows.cellOffset[r]!;
+    const n = rows.cellOffset[r + 1]! - first;
+    const pipe = rows.pipeCell[r]!;
+    // Map each cell of the row to a header column. With a '|' the two sides are matched separately, so a
+    // missing cell on the left does not shift the responses; without one, cells are matched by position.
+    const columnOfCell = new Int32Array(n).fill(-1);
+    let shapeOk: boolean;
+    if (pipe >= 0 && table.headerHasPipe) {
+      const left = pipe;
+      const right = n - pipe;
+      shapeOk = left === leftCount && right === rightCount;
+      for (let k = 0; k < Math.min(left, leftCount); k++) columnOfCell[k] = k;
+      for (let k = 0; k < Math.min(right, rightCount); k++) columnOfCell[pipe + k] = leftCount + k;
+      if (!shapeOk) {
+        const parts: string[] = [];
+        if (left !== leftCount) parts.push(`${left} cell${left === 1 ? "" : "s"} before '|' where the header has ${leftCount}`);
+        if (right !== rightCount) parts.push(`${right} after '|' where the header has ${rightCount}`);
+        sink.add(diagnostic("column-count", rowSpan, `This row has ${parts.join(" and ")}: add or remove cells so each column has one value (use ? for a value not measured yet).`));
+      }
+    } else {
+      shapeOk = n === table.columns.length;
+      for (let k = 0; k < Math.min(n, table.columns.length); k++) columnOfCell[k] = k;
+      if (!shapeOk) {
+        sink.add(
+          diagnostic("column-count", rowSpan, `This row has ${n} cell${n === 1 ? "" : "s"} where the header has ${table.columns.length} columns: add or remove cells so each column has one value.`),
+        );
+      }
+    }
+
+    ids[r] = String(r + 1);
+    for (let k = 0; k < n; k++) {
+      const column = columnOfCell[k]!;
+      if (column < 0) continue;
+      const role = roles[column]!;
+      const cell = first + k;
+      const span = { start: rows.cellStart[cell]!, end: rows.cellEnd[cell]! };
+      switch (role.kind) {
+        case "id": {
+          const id = cellText(source, rows, cell);
+          ids[r] = id;
+          const prior = firstIdRow.get(id);
+          if (prior !== undefined) {
+            sink.add(
+              diagnostic("duplicate-run", span, `Run id '${id}' is already used by an earlier row: give this run a new id.`, [
+                { span: rowSpans[prior]!, message: `first run with id '${id}'` },
+              ]),
+            );
+          } else firstIdRow.set(id, r);
+          break;
+        }
+        case "factor": {
+          const text = cellText(source, rows, cell);
+          const idx = levelIndex[role.index]!.get(text);
+          if (idx === undefined) {
+            const f = factors[role.index]!;
+            sink.add(text === "?" ? diagnostic("unknown-level", span, `A factor setting cannot be pending: write the level of '${f.name}' this run uses${listOf(f.levels.map((l) => l.name))}.`) : unknownLevel(text, span, f.name, f.levels));
+          } else levels[role.index]![r] = idx;
+          break;
+        }
+        case "covariate": {
+          const text = cellText(source, rows, cell);
+          const status = valueStatus(text, span, `covariate '${covariates[role.index]!.name}'`, sink, true);
+          covariateStatus[role.index]![r] = status;
+          if (status === ValueStatus.Measured) covariateTexts[role.index]![r] = text;
+          break;
+        }
+        case "response": {
+          const text = cellText(source, rows, cell);
+          const status = valueStatus(text, span, `response '${responses[role.index]!.name}'`, sink, false);
+          responseStatus[role.index]![r] = status;
+          responseSpans[role.index]![r] = span;
+          if (status === ValueStatus.Measured) responseTexts[role.index]![r] = text;
+          break;
+        }
+        default:
+          break;
+      }
+    }
+
+    if (idColumn >= 0 && columnOfCell.indexOf(idColumn) < 0) ids[r] = String(r + 1);
+    reportPendingAndExcluded(r, runs, responses, rows.excluded.get(r), idColumn >= 0, sink);
+  }
+  return runs;
+}
+
+function mapColumns(
+  columns: readonly Name[],
+  responseStart: number,
+  factors: readonly DesignFactor[],
+  covariates: readonly DesignCovariate[],
+  responses: readonly DesignResponse[],
+  sink: DiagnosticSink,
+): ColumnRole[] {
+  const roles: ColumnRole[] = [];
+  const firstSpan = new Map<string, Span>();
+  columns.forEach((column, i) => {
+    const prior = firstSpan.get(column.text);
+    if (prior) {
+      sink.add(diagnostic("duplicate-name", column.span, `Column '${column.text}' appears twice in the runs header: remove one.`, [{ span: prior, message: "first column of this name" }]));
+      roles.push({ kind: "unknown" });
+      return;
+    }
+    firstSpan.set(column.text, column.span);
+    if (i === 0 && column.text === "id" && !column.quoted) {
+      roles.push({ kind: "id" });
+      return;
+    }
+    if (i < responseStart) {
+      const f = factors.findIndex((x) => x.name === column.text);
+      const c = covariates.findIndex((x) => x.name === column.text);
+      if (f >= 0) roles.push({ kind: "factor", index: f });
+      else if (c >= 0) roles.push({ kind: "covariate", index: c });
+      else {
+        const isResponse = responses.some((x) => x.name === column.text);
+        sink.add(
+          diagnostic(
+            "unknown-factor",
+            column.span,
+            isResponse
+              ? `'${column.text}' is a response: move it after the '|' in the runs header.`
+              : `Column '${column.text}' is not a declared factor or covariate: declare it (factor ${column.text} levels ...) or fix the spelling${listOf([...factors.map((x) => x.name), ...covariates.map((x) => x.name)])}.`,
+          ),
+        );
+        roles.push({ kind: "unknown" });
+      }
+    } else {
+      const r = responses.findIndex((x) => x.name === column.text);
+      if (r >= 0) roles.push({ kind: "response", index: r });
+      else {
+        sink.add(
+          diagnostic(
+            "unknown-response",
+            column.span,
+            `Column '${column.text}' after '|' is not a declared response: declare it (response ${column.text} unit ...) or fix the spelling${listOf(responses.map((x) => x.name))}.`,
+          ),
+        );
+        roles.push({ kind: "unknown" });
+      }
+    }
+  });
+  const present = new Set(columns.map((c) => c.text));
+  const headerSpan = columns.length > 0 ? { start: columns[0]!.span.start, end: columns[columns.length - 1]!.span.end } : undefined;
+  if (headerSpan) {
+    for (const f of factors) {
+      if (!present.has(f.name)) sink.add(diagnostic("missing-column", headerSpan, `Factor '${f.name}' has no column in the runs table: add a '${f.name}' column before the '|'.`));
+    }
+    for (const c of covariates) {
+      if (!present.has(c.name)) sink.add(diagnostic("missing-column", headerSpan, `Covariate '${c.name}' has no column in the runs table: add a '${c.name}' column before the '|'.`));
+    }
+    for (const r of responses) {
+      if (!present.has(r.name)) sink.add(diagnostic("missing-column", headerSpan, `Response '${r.name}' has no column in the runs table: add a '${r.name}' column after the '|'.`));
+    }
+  }
+  return roles;
+}
+
+function valueStatus(text: string, span: Span, what: string, sink: DiagnosticSink, isCovariate: boolean): ValueStatus {
+  if (text === "?") {
+    if (isCovariate) {
+      sink.add(diagnostic("not-a-number", span, `The ${what} is not recorded for this run: write the measured value.`));
+      return ValueStatus.Invalid;
+    }
+    return ValueStatus.Pending;
+  }
+  if (!isDecimalText(text)) {
+    sink.add(diagnostic("not-a-number", span, `'${text}' is not a number for the ${what}: write a decimal number such as 12.5, or ? if it is not measured yet.`));
+    return ValueStatus.Invalid;
+  }
+  const value = Number(text);
+  if (!Number.isFinite(value)) {
+    sink.add(diagnostic("value-out-of-range", span, `'${text}' is too large to represent as a number for the ${what}: check the value or change its unit.`));
+    return ValueStatus.Invalid;
+  }
+  if (value !== 0 && Math.abs(value) < 2.2250738585072014e-308) {
+    sink.add(diagnostic("value-out-of-range", span, `'${text}' is too small to represent accurately for the ${what}: change its unit.`));
+    return ValueStatus.Invalid;
+  }
+  return ValueStatus.Measured;
+}
+
+function reportPendingAndExcluded(
+  r: number,
+  runs: DesignRuns,
+  responses: readonly DesignResponse[],
+  mark: { span: Span; reason?: { text: string } } | undefined,
+  hasIds: boolean,
+  sink: DiagnosticSink,
+): void {
+  const label = hasIds ? `Run ${runs.ids[r]}` : `Run ${r + 1}`;
+  if (mark) {
+    sink.add(
+      diagnostic(
+        "excluded-run",
+        mark.span,
+        mark.reason && mark.reason.text.trim() !== ""
+          ? `${label} is excluded from the analysis: ${mark.reason.text}.`
+          : `${label} is excluded from the analysis without a reason: write why, e.g. excluded "fixture slipped".`,
+      ),
+    );
+    return;
+  }
+  let start = -1;
+  let end = -1;
+  const pending: string[] = [];
+  responses.forEach((resp, k) => {
+    if (runs.responseStatus[k]![r] === ValueStatus.Pending) {
+      const span = runs.responseSpans[k]![r]!;
+      if (start < 0) start = span.start;
+      end = span.end;
+      pending.push(resp.name);
+    }
+  });
+  if (pending.length > 0) {
+    sink.add(diagnostic("pending-run", { start, end }, `${label} is pending: ${pending.join(", ")} not measured yet.`));
+  }
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Cells
+
+/** Largest number of cells enumerated; designs with more level combinations skip cell checks. */
+const MAX_CELLS = 1_000_000;
+
+function checkCells(design: Design, file: TrialFile, sink: DiagnosticSink): void {
+  const cellFactors = design.cellFactors;
+  if (cellFactors.length === 0) return;
+  let cellCount = 1;
+  for (const f of cellFactors) cellCount *= Math.max(1, design.factors[f]!.levels.length);
+  if (cellCount > MAX_CELLS || design.factors.some((f, i) => cellFactors.includes(i) && f.levels.length === 0)) return;
+
+  const { runs } = design;
+  const cellOfRun = cellIndexOfRuns(design);
+  const planned = new Int32Array(cellCount);
+  const firstRun = new Int32Array(cellCount).fill(-1);
+  for (let r = 0; r < runs.count; r++) {
+    const c = cellOfRun[r]!;
+    if (c < 0 || runs.excluded[r]) continue;
+    planned[c]!++;
+    if (firstRun[c]! < 0) firstRun[c] = r;
+  }
+
+  const replicates = design.settings.replicates;
+  const runsKeyword = file.runs!.keywordSpan;
+  for (let c = 0; c < cellCount; c++) {
+    if (planned[c] === 0) {
+      if (design.hasFraction) continue;
+      const interaction = cellFactors.length > 1 ? ` The ${cellFactors.map((f) => design.factors[f]!.name).join(" x ")} interaction cannot be fully estimated.` : "";
+      sink.add(diagnostic("empty-cell", runsKeyword, `No run has ${describeCell(design, c)}.${interaction} Add runs for this combination (use ? for values not measured yet).`));
+    } else if (replicates !== undefined && planned[c]! < replicates) {
+      const missing = replicates - planned[c]!;
+      const related = [];
+      for (let r = 0; r < runs.count; r++) {
+        if (cellOfRun[r] === c && !runs.excluded[r] && r !== firstRun[c]) related.push({ span: runs.rowSpans[r]!, message: `another run of ${describeCell(design, c)}` });
+      }
+      sink.add(
+        diagnostic(
+          "missing-replicate",
+          runs.rowSpans[firstRun[c]!]!,
+          `${describeCell(design, c)} has ${planned[c]} of ${replicates} replicates: add ${missing} run${missing === 1 ? "" : "s"} (a quick fix adds pending rows).`,
+          related,
+        ),
+      );
+    }
+  }
+
+  design.responses.forEach((response, k) => {
+    const measured = new Int32Array(cellCount);
+    const status = runs.responseStatus[k]!;
+    for (let r = 0; r < runs.count; r++) {
+      const c = cellOfRun[r]!;
+      if (c >= 0 && !runs.excluded[r] && status[r] === ValueStatus.Measured) measured[c]!++;
+    }
+    let min = Infinity;
+    let max = 0;
+    for (let c = 0; c < cellCount; c++) {
+      if (measured[c]! > 0) {
+        min = Math.min(min, measured[c]!);
+        max = Math.max(max, measured[c]!);
+      }
+    }
+    if (max > 0 && min !== max) {
+      sink.add(
+        diagnostic(
+          "unbalanced-cells",
+          response.span,
+          `The cells hold ${min} to ${max} measured values of '${response.name}', so the design is unbalanced: effects are tested with Type ${design.settings.ssType} sums of squares and level means are not all equally precise.`,
+        ),
+      );
+    }
+  });
+}
+
+/** The cell (mixed-radix index over `design.cellFactors`) of each run, or -1 where a level is unknown. */
+export function cellIndexOfRuns(design: Design): Int32Array {
+  const { runs, cellFactors } = design;
+  const result = new Int32Array(runs.count);
+  for (let r = 0; r < runs.count; r++) {
+    let index = 0;
+    for (const f of cellFactors) {
+      const level = runs.levels[f]![r]!;
+      if (level < 0) {
+        index = -1;
+        break;
+      }
+      index = index * design.factors[f]!.levels.length + level;
+    }
+    result[r] = index;
+  }
+  return result;
+}
+
+/** Words for a cell, e.g. "profile=soak, line=south". */
+export function describeCell(design: Design, cell: number): string {
+  const parts: string[] = [];
+  let rest = cell;
+  for (let i = design.cellFactors.length - 1; i >= 0; i--) {
+    const f = design.factors[design.cellFactors[i]!]!;
+    const n = f.levels.length;
+    parts.unshift(`${f.name}=${f.levels[rest % n]!.name}`);
+    rest = Math.floor(rest / n);
+  }
+  return parts.join(", ");
+}
+
+function unknownLevel(text: string, span: Span, factor: string, levels: readonly { name: string }[]): Diagnostic {
+  return diagnostic("unknown-level", span, `'${text}' is not a level of factor '${factor}': fix the spelling or add it to the factor's levels${listOf(levels.map((l) => l.name))}.`);
+}
+
+function listOf(names: readonly string[]): string {
+  if (names.length === 0) return "";
+  const shown = names.slice(0, 12).join(", ");
+  return ` (declared: ${shown}${names.length > 12 ? ", ..." : ""})`;
+}

@@ -1,0 +1,112 @@
+import type { FactorRole, Goal, Span } from "../../../grammar/src/ast.js";
+
+/** A factor level after name resolution. */
+export interface DesignLevel {
+  readonly name: string;
+  readonly span: Span;
+  /** Set when the level was written as a number. */
+  readonly numeric?: number;
+}
+
+export interface DesignFactor {
+  readonly name: string;
+  readonly span: Span;
+  readonly role: FactorRole;
+  readonly levels: readonly DesignLevel[];
+  readonly unit?: string;
+  /** Index into `levels` of the declared `control` level. */
+  readonly control?: number;
+  /** Index into `Design.factors` of the factor this one is nested in. */
+  readonly within?: number;
+}
+
+export interface DesignCovariate {
+  readonly name: string;
+  readonly span: Span;
+  readonly unit?: string;
+}
+
+export interface DesignResponse {
+  readonly name: string;
+  readonly span: Span;
+  readonly unit?: string;
+  readonly goal?: Goal["kind"];
+  readonly target?: number;
+  readonly specLower?: number;
+  readonly specUpper?: number;
+  /** `plan detect NAME DIFF`: the smallest difference worth finding. */
+  readonly detect?: number;
+}
+
+/** One variable of a model term: a factor or a covariate, by index. */
+export type TermVariable = { readonly kind: "factor"; readonly index: number } | { readonly kind: "covariate"; readonly index: number };
+
+/** A model term: one variable (main effect, covariate) or several (interaction). */
+export interface DesignTerm {
+  /** Source name as in the ANOVA table: variable names joined by " x ". */
+  readonly name: string;
+  readonly variables: readonly TermVariable[];
+}
+
+export type SumsOfSquaresType = "I" | "II" | "III";
+
+/** Plan settings after validation, with defaults applied. `fromFile` records which the file set explicitly. */
+export interface DesignSettings {
+  readonly replicates?: number;
+  readonly alpha: number;
+  readonly confidence: number;
+  readonly power: number;
+  readonly seed?: number;
+  readonly ssType: SumsOfSquaresType;
+  readonly fromFile: ReadonlySet<"alpha" | "confidence" | "power" | "sums-of-squares">;
+}
+
+/** Status of one response value of one run. */
+export const enum ValueStatus {
+  Measured = 0,
+  Pending = 1,
+  /** Missing column, not a number, or a row that could not be read: reported by a diagnostic. */
+  Invalid = 2,
+}
+
+/**
+ * The runs of a design, column-wise: index `i` is the i-th row of the runs table (run order).
+ * Texts are kept exactly as written so the engine can centre them in decimal.
+ */
+export interface DesignRuns {
+  readonly count: number;
+  readonly ids: readonly string[];
+  /** Span of each run's row in the document. */
+  readonly rowSpans: readonly Span[];
+  /** Per factor: level index per run, -1 where unknown or missing. */
+  readonly levels: readonly Int32Array[];
+  /** Per covariate: value text per run ("" where missing or invalid). */
+  readonly covariateTexts: readonly (readonly string[])[];
+  readonly covariateStatus: readonly Uint8Array[];
+  /** Per response: value text per run ("" unless measured). */
+  readonly responseTexts: readonly (readonly string[])[];
+  /** Per response: a `ValueStatus` per run. */
+  readonly responseStatus: readonly Uint8Array[];
+  /** Per response: span of the value cell per run (for hovers and diagnostics); undefined where absent. */
+  readonly responseSpans: readonly (readonly (Span | undefined)[])[];
+  /** 1 where the run is marked `excluded`. */
+  readonly excluded: Uint8Array;
+}
+
+/**
+ * The semantic model of a `.trial` file: names resolved, the design assembled. Plain data, no methods.
+ */
+export interface Design {
+  readonly title?: string;
+  readonly factors: readonly DesignFactor[];
+  readonly covariates: readonly DesignCovariate[];
+  readonly responses: readonly DesignResponse[];
+  readonly terms: readonly DesignTerm[];
+  /** True when `plan model` chose the terms; false when they are the default. */
+  readonly explicitModel: boolean;
+  readonly settings: DesignSettings;
+  readonly runs: DesignRuns;
+  /** Indices of the factors whose level combinations form the design's cells (fixed and block factors). */
+  readonly cellFactors: readonly number[];
+  readonly hasFraction: boolean;
+}

@@ -1,0 +1,94 @@
+import { readFile } from "node:fs/promises";
+import { resolve } from "node:path";
+import { analyzeDocument } from "../analysis/analyze-document.js";
+import type { SumsOfSquaresType } from "../analysis/design.js";
+import { alignColumns } from "../text/align-columns.js";
+import { formatF, formatNumber, formatP, formatStatistic, MISSING } from "../text/format-number.js";
+import { termRows, termVerdict } from "../text/verdicts.js";
+import type { DocumentAnalysis, ResponseAnalysis } from "../analysis/results.js";
+import { VERSION } from "../version.js";
+import { choice, parseArguments, probability } from "./arguments.js";
+import { locateDiagnostics } from "./check-command.js";
+import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
+
+export const ANALYZE_USAGE = `Usage: trialbook analyze FILE [--format text|json] [--ss-type I|II|III] [--alpha A] [--confidence C]
+  Prints the ANOVA table, R², residual SD and means of every response. Flags override the file's plan
+  for this run only. Exit code 1 when the file has errors, 0 otherwise.`;
+
+export const CAUTION =
+  "Statistical significance is not engineering acceptance. Where a change affects safety, health or structural integrity, apply the relevant standards and have qualified, licensed people review it.";
+
+/** `trialbook analyze`: results of one file as text or as the JSON contract. */
+export async function analyzeCommand(args: readonly string[], io: CliIo): Promise<number> {
+  const { values, positionals } = parseArguments(args, {
+    format: { type: "string" },
+    "ss-type": { type: "string" },
+    alpha: { type: "string" },
+    confidence: { type: "string" },
+  });
+  if (positionals.length !== 1) throw new UsageError("analyze takes exactly one .trial file.");
+  const format = choice(values.format, "format", ["text", "json"] as const) ?? "text";
+  const ssType = choice<SumsOfSquaresType>(values["ss-type"], "ss-type", ["I", "II", "III"]);
+  const alpha = probability(values.alpha, "alpha");
+  const confidence = probability(values.confidence, "confidence");
+  const path = positionals[0]!;
+  const text = await readFile(resolve(io.cwd, path), "utf8").catch(() => {
+    throw new UsageError(`Cannot read '${path}'.`);
+  });
+  const analysis = analyzeDocument(text, {}, { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) });
+  const diagnostics = locateDiagnostics(text, analysis.diagnostics);
+  io.stdout(format === "json" ? JSON.stringify(analysisJson(path, analysis, diagnostics), null, 2) + "\n" : analysisText(path, analysis, diagnostics));
+  return diagnostics.some((d) => d.severity === "error") ? EXIT_PROBLEMS : EXIT_OK;
+}
+
+/** The `analyze --format json` document (design brief §5; docs/json-output.md). */
+export function analysisJson(path: string, analysis: DocumentAnalysis, diagnostics: ReturnType<typeof locateDiagnostics>): unknown {
+  return { trialbook: VERSION, file: path, diagnostics, responses: analysis.responses };
+}
+
+/** The text report: per response an aligned ANOVA table, fit summary, verdicts in words and means. */
+export function analysisText(path: string, analysis: DocumentAnalysis, diagnostics: ReturnType<typeof locateDiagnostics>): string {
+  const out: string[] = [];
+  const title = analysis.design.title;
+  out.push(title ? `${path}: ${title}` : path);
+  const errors = diagnostics.filter((d) => d.severity === "error");
+  const warnings = diagnostics.filter((d) => d.severity === "warning");
+  if (errors.length + warnings.length > 0) {
+    out.push("");
+    for (const d of [...errors, ...warnings]) out.push(`  ${path}:${d.line}:${d.column}: ${d.severity} ${d.code}: ${d.message}`);
+  }
+  for (const response of analysis.responses) out.push("", ...responseText(response, analysis));
+  out.push("", CAUTION, "");
+  return out.join("\n");
+}
+
+function responseText(r: ResponseAnalysis, analysis: DocumentAnalysis): string[] {
+  const unit = analysis.design.responses.find((x) => x.name === r.name)?.unit;
+  const lines = [`${r.name}${unit ? ` (${unit})` : ""}: ${r.n} measured run${r.n === 1 ? "" : "s"}, Type ${r.ssType} sums of squares`];
+  if (r.anova.length === 0) {
+    lines.push("  No analysis yet (see the diagnostics above).");
+    return lines;
+  }
+  const table = [["Source", "df", "SS", "MS", "F", "p"]];
+  for (const row of r.anova) {
+    table.push([row.source, String(row.df), formatStatistic(row.ss), row.ms === undefined ? "" : formatStatistic(row.ms), row.f === undefined ? "" : formatF(row.f), row.p === undefined ? "" : formatP(row.p)]);
+  }
+  lines.push("", ...alignColumns(table, { align: ["left", "right", "right", "right", "right", "right"] }).map((l) => "  " + l));
+  lines.push("", `  R² = ${formatNumber(r.rSquared)}   residual SD = ${formatNumber(r.residualSd)}${unit && r.residualSd !== null ? ` ${unit}` : ""}`);
+  const verdicts = termRows(r).map((row) => termVerdict(row, r));
+  if (verdicts.length > 0) lines.push("", ...verdicts.map((v) => "  " + v));
+  if (r.means.length > 0) {
+    const level = Math.round(r.confidence * 100);
+    const means = [["Term", "Level", "n", "Mean", "SD", `${level}% CI`]];
+    for (const m of r.means) {
+      means.push([m.term, m.level, String(m.n), formatNumber(m.mean, 5), formatNumber(m.sd), m.lower === null || m.upper === null ? MISSING : `${formatNumber(m.lower, 5)} to ${formatNumber(m.upper, 5)}`]);
+    }
+    lines.push("", ...alignColumns(means, { align: ["left", "left", "right", "right", "right", "left"] }).map((l) => "  " + l));
+  }
+  if (r.slopes.length > 0) {
+    lines.push("");
+    for (const s of r.slopes) lines.push(`  Slope of ${r.name} on ${s.covariate}: ${formatNumber(s.slope)} (SE ${formatNumber(s.standardError)})`);
+    for (const h of r.slopeHomogeneity) lines.push(`  Equal slopes across ${h.term}: F(${h.df1}, ${h.df2}) = ${formatF(h.f)}, p = ${formatP(h.p)}`);
+  }
+  return lines;
+}

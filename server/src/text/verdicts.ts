@@ -1,0 +1,38 @@
+import type { AnovaRow, ResponseAnalysis } from "../analysis/results.js";
+import { formatF, formatP } from "./format-number.js";
+
+/** The degrees of freedom of the residual row, or undefined when the table has none. */
+export function residualDf(analysis: ResponseAnalysis): number | undefined {
+  return analysis.anova.find((row) => row.source === "Residual")?.df;
+}
+
+/** The model-term rows of an ANOVA table (without Residual and Total). */
+export function termRows(analysis: ResponseAnalysis): AnovaRow[] {
+  return analysis.anova.filter((row) => row.source !== "Residual" && row.source !== "Total");
+}
+
+/** `F(3, 16) = 9.84, p = 0.0007` for a term row. */
+export function testSummary(row: AnovaRow, dfResidual: number | undefined): string {
+  return `F(${row.df}, ${dfResidual ?? "?"}) = ${formatF(row.f)}, p = ${formatP(row.p)}`;
+}
+
+/**
+ * One sentence per term saying, in words, whether it changes the response at the analysis's alpha:
+ * "profile changes strength: F(3, 16) = 9.84, p = 0.0007".
+ */
+export function termVerdict(row: AnovaRow, analysis: ResponseAnalysis): string {
+  const df = residualDf(analysis);
+  const test = testSummary(row, df);
+  if (row.p === null || row.p === undefined) return `${row.source}: no test possible (${test}).`;
+  const parts = row.source.split(" x ");
+  const significant = row.p < analysis.alpha;
+  if (parts.length > 1) {
+    const joined = parts.slice(0, -1).join(", ") + " and " + parts[parts.length - 1];
+    return significant
+      ? `${joined} interact: the effect of one on ${analysis.name} depends on the other${parts.length > 2 ? "s" : ""}: ${test}.`
+      : `No evidence that ${joined} interact on ${analysis.name} at alpha ${analysis.alpha}: ${test}.`;
+  }
+  return significant
+    ? `${row.source} changes ${analysis.name}: ${test}.`
+    : `No evidence that ${row.source} changes ${analysis.name} at alpha ${analysis.alpha}: ${test}.`;
+}
