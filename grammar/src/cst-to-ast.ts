@@ -614,7 +614,11 @@ export function lexingProblems(lexed: ILexingResult): SyntaxProblem[] {
  * line is reported just after the last token the user wrote; text that cannot start a declaration is
  * reported over everything skipped.
  */
-export function parsingProblems(source: string, errors: readonly IRecognitionException[]): SyntaxProblem[] {
+export function parsingProblems(
+  source: string,
+  tokens: readonly IToken[],
+  errors: readonly IRecognitionException[],
+): SyntaxProblem[] {
   const out: SyntaxProblem[] = [];
   for (const e of errors) {
     const token = e.token;
@@ -623,9 +627,8 @@ export function parsingProblems(source: string, errors: readonly IRecognitionExc
     const tokenIsReal = real(token) !== undefined && token.tokenType !== EOF;
     let span: Span;
     if (topLevel && tokenIsReal) {
-      let end = tokenEnd(token);
-      for (const t of e.resyncedTokens) if (real(t)) end = Math.max(end, tokenEnd(t));
-      span = { start: token.startOffset, end };
+      // Recovery skips to the next token that can start a declaration: report everything skipped.
+      span = { start: token.startOffset, end: skippedEnd(tokens, token) };
     } else if (previous !== undefined && real(previous) && (!tokenIsReal || lineBreakBetween(source, tokenEnd(previous), token.startOffset))) {
       const at = tokenEnd(previous);
       span = { start: at, end: at };
@@ -645,4 +648,22 @@ function lineBreakBetween(source: string, from: number, to: number): boolean {
     if (ch === 10 || ch === 13) return true;
   }
   return false;
+}
+
+/** The end of the last token before the first top-level keyword after `token` (or the last token). */
+function skippedEnd(tokens: readonly IToken[], token: IToken): number {
+  let lo = 0;
+  let hi = tokens.length - 1;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (tokens[mid]!.startOffset < token.startOffset) lo = mid + 1;
+    else hi = mid;
+  }
+  let end = tokenEnd(token);
+  for (let i = lo + 1; i < tokens.length; i++) {
+    const t = tokens[i]!;
+    if (isTopLevelKeyword(t.image) && t.tokenType.name !== "HeaderWord" && !t.tokenType.name.endsWith("String")) break;
+    end = tokenEnd(t);
+  }
+  return end;
 }

@@ -20,7 +20,7 @@ export function parseTrial(text: string): TrialFile {
     trialParser.setSource(source);
     trialParser.input = lexed.tokens;
     const cst = trialParser.trialFile() as TrialFileCstNode;
-    const problems: SyntaxProblem[] = [...lexingProblems(lexed), ...parsingProblems(source, trialParser.errors)];
+    const problems: SyntaxProblem[] = [...lexingProblems(lexed), ...parsingProblems(source, lexed.tokens, trialParser.errors)];
     return buildTrialFile(source, cst, problems);
   } catch (error) {
     // A bug of ours must not reach the user as an exception: report it where it cannot be missed.

@@ -135,6 +135,7 @@ export function scanRunsBody(source: string, start: number, end: number, headerH
     let pipe = -1;
     let lastContentEnd = p;
     let mark: ExcludedMark | undefined;
+    let unterminatedCell = false;
     rowStart.push(p);
     while (p < end) {
       c = source.charCodeAt(p);
@@ -178,6 +179,7 @@ export function scanRunsBody(source: string, start: number, end: number, headerH
         cellEnd.push(qEnd);
         cellFlags.push(terminated ? CellFlag.Quoted : CellFlag.Quoted | CellFlag.Unterminated);
         if (!terminated) {
+          unterminatedCell = true;
           problems.push(problem("unterminated quoted cell: add the closing '\"'", p, qEnd));
         } else if (qEnd < end && !endsBareCell(source.charCodeAt(qEnd))) {
           // `"a"b`: report the glued characters and go on reading them as another cell.
@@ -234,7 +236,8 @@ export function scanRunsBody(source: string, start: number, end: number, headerH
     rowEnd.push(lastContentEnd);
     pipeCell.push(pipe);
     cellOffset.push(cellStart.length);
-    if (pipe < 0 && headerHasPipe && cellStart.length > firstCell) {
+    // An unterminated quoted cell swallows the rest of the line, `|` included: one problem is enough.
+    if (pipe < 0 && headerHasPipe && cellStart.length > firstCell && !unterminatedCell) {
       problems.push(
         problem("missing '|' between factor and response columns: put '|' where the runs header has it", rowStart.data[row]!, lastContentEnd),
       );
