@@ -96,14 +96,35 @@ export function selectColumns(design: DesignMatrix, columns: readonly number[]):
   return out;
 }
 
-/** Arithmetic mean with one correction pass, so the rounding error does not grow with n. */
+/** Arithmetic mean: compensated sum, then one correction pass, so the rounding error does not grow with n. */
 export function mean(v: Float64Array): number {
   const n = v.length;
   if (n === 0) return 0;
-  let s = 0;
-  for (let i = 0; i < n; i++) s += v[i]!;
-  const m = s / n;
-  let c = 0;
-  for (let i = 0; i < n; i++) c += v[i]! - m;
-  return m + c / n;
+  const s = new NeumaierSum();
+  for (let i = 0; i < n; i++) s.add(v[i]!);
+  const m = s.value() / n;
+  const c = new NeumaierSum();
+  for (let i = 0; i < n; i++) c.add(v[i]! - m);
+  return m + c.value() / n;
+}
+
+/**
+ * Compensated summation (Neumaier 1974, improving Kahan 1965): the error bound does not grow with the
+ * number of terms, which matters for sums over thousands of observations.
+ */
+export class NeumaierSum {
+  private sum = 0;
+  private compensation = 0;
+
+  /** Adds one term. */
+  add(v: number): void {
+    const t = this.sum + v;
+    this.compensation += Math.abs(this.sum) >= Math.abs(v) ? this.sum - t + v : v - t + this.sum;
+    this.sum = t;
+  }
+
+  /** The compensated total so far. */
+  value(): number {
+    return this.sum + this.compensation;
+  }
 }
