@@ -1,0 +1,179 @@
+/**
+ * Exact decimal centering of data typed as decimal text.
+ *
+ * Why: data such as 1000000000000.4, 1000000000000.3, ... (13 constant leading digits, as in the NIST
+ * StRD SmLs07-09 sets) lose their varying digits as soon as they become doubles. Subtracting an offset
+ * exactly in decimal first, then converting each difference once, leaves values such as 0.4 - 0.3 that
+ * carry the full precision of a double, so the later floating-point arithmetic is accurate.
+ *
+ * Offset choice: the midpoint of the data's range, rounded to the power of ten 10^k just below the range
+ * (k = floor(log10(max - min))), computed from approximate doubles. It is a short decimal (no digits
+ * below the range's own order of magnitude, so never finer than the data), and every centered value is
+ * at most about the range in magnitude, which is what keeps sums of squares accurate. Being a rounded
+ * midpoint it is independent of row order, unlike the first value. When all values are equal it is
+ * that value itself, and the centered values are all exactly 0. Only the choice uses approximations;
+ * each difference x_i - offset is exact.
+ *
+ * Arithmetic: every value and the offset are scaled to integers at the finest decimal scale E present.
+ * When a scaled integer and the difference are below 2^53 the subtraction is exact in doubles and the
+ * single multiplication or division by 10^|E| (|E| <= 22) is correctly rounded (Clinger 1990); otherwise
+ * that value is done with BigInt and converted by the engine's correctly rounded decimal-string parser.
+ */
+
+import {
+  EXACT_POWERS_OF_TEN,
+  rangeReason,
+  scanDecimal,
+  scanValue,
+  significantDigits,
+  emptyScan,
+  type DecimalScan,
+} from "./parse-decimal.js";
+
+/** Result of {@link centerDecimals}. */
+export type CenterDecimalsResult =
+  | {
+      readonly ok: true;
+      /** The offset as a canonical decimal text (for example "1000000000000.4"). */
+      readonly offsetText: string;
+      /** The double nearest to the offset. */
+      readonly offset: number;
+      /** values[i] is the double nearest to the exact decimal difference texts[i] - offset. */
+      readonly values: Float64Array;
+    }
+  | {
+      readonly ok: false;
+      /** Index of the first text that could not be used. */
+      readonly index: number;
+      /** A sentence saying why. */
+      readonly reason: string;
+    };
+
+const TWO_POW_53 = 9007199254740992;
+
+/**
+ * Centers decimal texts exactly: picks a short decimal offset near the middle of the data and returns,
+ * for each text, the double nearest to (value - offset) computed exactly in decimal before the one
+ * conversion. Fails with the index of the first text that is not a decimal number (see parseDecimal
+ * for the syntax) or whose magnitude no finite double can represent. An empty input gives offset 0.
+ * Never throws.
+ */
+export function centerDecimals(texts: readonly string[]): CenterDecimalsResult {
+  const n = texts.length;
+  // Scan results live in typed arrays (one reused scan record), so a million rows allocate no objects.
+  const negative = new Uint8Array(n);
+  const mantissa = new Float64Array(n);
+  const significantCount = new Int32Array(n);
+  const exponent = new Int32Array(n);
+  const scan = emptyScan();
+  let min = Infinity;
+  let max = -Infinity;
+  let scale = Infinity;
+  for (let i = 0; i < n; i++) {
+    const scanned = scanDecimal(texts[i], scan);
+    if (typeof scanned === "string") return { ok: false, index: i, reason: scanned };
+    const value = scanValue(texts[i], scan);
+    const problem = rangeReason(texts[i], scan, value);
+    if (problem !== undefined) return { ok: false, index: i, reason: problem };
+    negative[i] = scan.negative ? 1 : 0;
+    mantissa[i] = scan.mantissa;
+    significantCount[i] = scan.significantCount;
+    exponent[i] = scan.exponent;
+    if (scan.significantCount > 0 && scan.exponent < scale) scale = scan.exponent;
+    if (value < min) min = value;
+    if (value > max) max = value;
+  }
+  const offset = chooseOffset(texts[0], min, max);
+  const offsetText = formatDecimal(offset.negative, offset.digits, offset.exponent);
+  if (offset.digits !== "" && offset.exponent < scale) scale = offset.exponent;
+  if (scale === Infinity) scale = 0;
+
+  const offsetScaled = scaledNumber(offset.negative, offset.mantissa, offset.digits.length, offset.exponent - scale);
+  const fastScale = Math.abs(scale) <= 22;
+  const power = fastScale ? EXACT_POWERS_OF_TEN[Math.abs(scale)] : NaN;
+  const values = new Float64Array(n);
+  let offsetBig: bigint | undefined;
+  for (let i = 0; i < n; i++) {
+    let result = NaN;
+    const scaled = scaledNumber(negative[i] === 1, mantissa[i], significantCount[i], exponent[i] - scale);
+    if (fastScale && !Number.isNaN(scaled) && !Number.isNaN(offsetScaled)) {
+      const difference = scaled - offsetScaled;
+      if (difference === 0) result = 0;
+      else if (Math.abs(difference) < TWO_POW_53) result = scale >= 0 ? difference * power : difference / power;
+    }
+    if (Number.isNaN(result)) {
+      offsetBig ??= scaledBigInt(offset.negative, offset.digits, offset.exponent - scale);
+      scanDecimal(texts[i], scan);
+      const difference = scaledBigInt(scan.negative, significantDigits(texts[i], scan), scan.exponent - scale) - offsetBig;
+      result = difference === 0n ? 0 : Number(`${difference}e${scale}`);
+    }
+    if (!Number.isFinite(result)) {
+      return { ok: false, index: i, reason: `${texts[i]} minus the offset ${offsetText} is too large for a finite double` };
+    }
+    values[i] = result;
+  }
+  return { ok: true, offsetText, offset: Number(offsetText), values };
+}
+
+interface Offset {
+  readonly negative: boolean;
+  readonly digits: string;
+  readonly mantissa: number;
+  readonly exponent: number;
+}
+
+/** The rounded midpoint described in the module comment, as exact digits and exponent. */
+function chooseOffset(firstText: string | undefined, min: number, max: number): Offset {
+  const zero: Offset = { negative: false, digits: "", mantissa: 0, exponent: 0 };
+  if (firstText === undefined) return zero;
+  const range = max - min;
+  if (range === 0) {
+    const scan = scanDecimal(firstText) as DecimalScan;
+    const digits = significantDigits(firstText, scan);
+    return digits === "" ? zero : { negative: scan.negative, digits, mantissa: scan.mantissa, exponent: scan.exponent };
+  }
+  if (!Number.isFinite(range)) return zero;
+  const k = Math.floor(Math.log10(range));
+  const middle = min / 2 + max / 2;
+  const quantum = Math.pow(10, k);
+  const units = Math.round(middle / quantum);
+  if (units === 0 || !Number.isFinite(units)) return zero;
+  let digits = BigInt(Math.abs(units)).toString();
+  let exponent = k;
+  let end = digits.length;
+  while (digits.charCodeAt(end - 1) === 48) end--;
+  exponent += digits.length - end;
+  digits = digits.slice(0, end);
+  const mantissa = digits.length <= 15 ? Number(digits) : NaN;
+  return { negative: units < 0, digits, mantissa, exponent };
+}
+
+/**
+ * ±mantissa × 10^shift as an exact double integer, or NaN when that is not guaranteed (more than 15
+ * significant digits, a shift beyond 10^22, or a product of 2^53 or more).
+ */
+function scaledNumber(negative: boolean, mantissa: number, significantCount: number, shift: number): number {
+  if (significantCount === 0) return 0;
+  if (significantCount > 15 || shift > 22 || Number.isNaN(mantissa)) return NaN;
+  const product = mantissa * EXACT_POWERS_OF_TEN[shift];
+  if (product >= TWO_POW_53) return NaN;
+  return negative ? -product : product;
+}
+
+function scaledBigInt(negative: boolean, digits: string, shift: number): bigint {
+  if (digits === "") return 0n;
+  const magnitude = BigInt(digits) * 10n ** BigInt(shift);
+  return negative ? -magnitude : magnitude;
+}
+
+/** Canonical text of ±digits × 10^exponent: plain notation for moderate exponents, else scientific. */
+function formatDecimal(negative: boolean, digits: string, exponent: number): string {
+  if (digits === "") return "0";
+  const sign = negative ? "-" : "";
+  const pointPosition = digits.length + exponent;
+  if (exponent >= 0 && pointPosition <= 21) return sign + digits + "0".repeat(exponent);
+  if (exponent < 0 && pointPosition > 0) return `${sign}${digits.slice(0, pointPosition)}.${digits.slice(pointPosition)}`;
+  if (exponent < 0 && pointPosition > -7) return `${sign}0.${"0".repeat(-pointPosition)}${digits}`;
+  const mantissa = digits.length === 1 ? digits : `${digits[0]}.${digits.slice(1)}`;
+  return `${sign}${mantissa}e${pointPosition - 1}`;
+}
