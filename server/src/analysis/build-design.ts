@@ -1,6 +1,6 @@
 import type { DecimalNumber, FactorDecl, Name, PlanSetting, Span, TrialFile } from "../../../grammar/src/ast.js";
 import { cellText } from "../../../grammar/src/runs-table.js";
-import { isDecimalText } from "./decimal-text.js";
+import { emptyScan, rangeReason, scanDecimal, scanValue } from "../stats/decimal/parse-decimal.js";
 import type {
   Design,
   DesignCovariate,
@@ -575,6 +575,9 @@ function mapColumns(
   return roles;
 }
 
+/** Reused by every cell check so validating a million values allocates nothing per value. */
+const scratchScan = emptyScan();
+
 function valueStatus(text: string, span: Span, what: string, sink: DiagnosticSink, isCovariate: boolean): ValueStatus {
   if (text === "?") {
     if (isCovariate) {
@@ -583,17 +586,14 @@ function valueStatus(text: string, span: Span, what: string, sink: DiagnosticSin
     }
     return ValueStatus.Pending;
   }
-  if (!isDecimalText(text)) {
+  const scan = scanDecimal(text, scratchScan);
+  if (typeof scan === "string") {
     sink.add(diagnostic("not-a-number", span, `'${text}' is not a number for the ${what}: write a decimal number such as 12.5, or ? if it is not measured yet.`));
     return ValueStatus.Invalid;
   }
-  const value = Number(text);
-  if (!Number.isFinite(value)) {
-    sink.add(diagnostic("value-out-of-range", span, `'${text}' is too large to represent as a number for the ${what}: check the value or change its unit.`));
-    return ValueStatus.Invalid;
-  }
-  if (value !== 0 && Math.abs(value) < 2.2250738585072014e-308) {
-    sink.add(diagnostic("value-out-of-range", span, `'${text}' is too small to represent accurately for the ${what}: change its unit.`));
+  const outOfRange = rangeReason(text, scan, scanValue(text, scan));
+  if (outOfRange) {
+    sink.add(diagnostic("value-out-of-range", span, `The ${what} cannot be represented: ${outOfRange}. Check the value or change its unit.`));
     return ValueStatus.Invalid;
   }
   return ValueStatus.Measured;
