@@ -1,9 +1,18 @@
 import type { Span, TrialFile } from "../../../grammar/src/ast.js";
 import { parseTrial } from "../../../grammar/src/parse.js";
-import { analyzeResponse } from "./analyze-response.js";
+import { analyzeResponse, type ResponseContext } from "./analyze-response.js";
 import { type AnalysisSettings, buildDesign } from "./build-design.js";
-import type { Diagnostic } from "./diagnostics.js";
+import { type Diagnostic, diagnostic } from "./diagnostics.js";
 import type { DocumentAnalysis, ResponseAnalysis } from "./results.js";
+
+/**
+ * An analysis that builds on a response's fit and adds named keys to its result (see results.ts), with
+ * diagnostics of its own. Extensions run in list order; each sees the result as extended so far.
+ */
+export type ResponseExtension = (context: ResponseContext) => { readonly add: Partial<ResponseAnalysis>; readonly diagnostics: readonly Diagnostic[] };
+
+/** The extensions every analysis runs. Add one line per feature module. */
+const RESPONSE_EXTENSIONS: readonly ResponseExtension[] = [];
 
 /**
  * The engine's single entry point: parse, build the design, analyse every response.
@@ -22,9 +31,22 @@ export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, 
   // A file with errors in its design still gets an analysis of what could be read: the user sees both.
   const termSpans = modelTermSpans(file);
   design.responses.forEach((response, k) => {
-    const { result, diagnostics: found } = analyzeResponse(design, k, { response: response.span, terms: termSpans });
-    responses.push(result);
+    const { result, diagnostics: found, context } = analyzeResponse(design, k, { response: response.span, terms: termSpans });
     diagnostics.push(...found);
+    let extended = result;
+    if (context) {
+      for (const extension of RESPONSE_EXTENSIONS) {
+        // One failing analysis must not take the others down: report it where the response is declared.
+        try {
+          const { add, diagnostics: more } = extension({ ...context, result: extended });
+          extended = { ...extended, ...add };
+          diagnostics.push(...more);
+        } catch (error) {
+          diagnostics.push(diagnostic("internal-error", response.span, `Part of the analysis of '${response.name}' failed (${error instanceof Error ? error.message : String(error)}). This is a bug in Trialbook: please report it with this file.`));
+        }
+      }
+    }
+    responses.push(extended);
   });
   return { file, design, diagnostics, responses };
 }

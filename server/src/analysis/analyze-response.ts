@@ -2,7 +2,7 @@ import type { Span } from "../../../grammar/src/ast.js";
 import { centerDecimals } from "../stats/decimal/center-decimals.js";
 import { fitLinearModel } from "../stats/linear-model/fit-linear-model.js";
 import { groupMeans } from "../stats/linear-model/group-means.js";
-import type { LinearModelResult, ModelFactor, ModelTerm } from "../stats/linear-model/types.js";
+import type { LinearModelInput, LinearModelResult, ModelFactor, ModelTerm } from "../stats/linear-model/types.js";
 import { type Design, type DesignTerm, ValueStatus } from "./design.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
 import type { AdjustedLevelMean, AnovaRow, LevelMean, ResponseAnalysis } from "./results.js";
@@ -14,11 +14,35 @@ export interface AnalysisAnchors {
 }
 
 /**
+ * Everything an analysis extension (comparisons, model checks, power, special designs) needs about one
+ * response's fit, so that it does not repeat the selection, centring and fitting.
+ */
+export interface ResponseContext {
+  readonly design: Design;
+  readonly responseIndex: number;
+  readonly anchors: AnalysisAnchors;
+  /** Run (row) indices of the observations in the fit, in run order. */
+  readonly runs: readonly number[];
+  /** Centred response values of those runs (add `offset` for the response scale). */
+  readonly y: Float64Array;
+  readonly offset: number;
+  /** Compact level codes (per observation) and the declared level index of each code, for a factor index. */
+  readonly levelsOf: (factor: number) => { readonly codes: Int32Array; readonly levels: readonly number[] } | undefined;
+  /** The exact input the linear model was fitted on. */
+  readonly input: LinearModelInput;
+  /** The design terms in the fit (terms that could not be estimated are left out). */
+  readonly modelTerms: readonly DesignTerm[];
+  readonly fit: LinearModelResult;
+  /** The core result built so far. */
+  readonly result: ResponseAnalysis;
+}
+
+/**
  * Analyses one response: selects its measured, non-excluded runs, centres the values by an exact decimal
  * offset, fits the design's linear model and converts the fit into the plain result of the JSON contract.
  * Degenerate situations become diagnostics; the result then carries `null`s or empty tables.
  */
-export function analyzeResponse(design: Design, responseIndex: number, anchors: AnalysisAnchors): { result: ResponseAnalysis; diagnostics: Diagnostic[] } {
+export function analyzeResponse(design: Design, responseIndex: number, anchors: AnalysisAnchors): { result: ResponseAnalysis; diagnostics: Diagnostic[]; context?: ResponseContext } {
   const response = design.responses[responseIndex]!;
   const diagnostics: Diagnostic[] = [];
   const { runs, settings } = design;
@@ -137,8 +161,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   ];
   const pooled = { ms: fit.residual.ms, df: fit.residual.df };
 
-  return {
-    result: {
+  const result: ResponseAnalysis = {
       ...empty,
       anova,
       rSquared: fit.rSquared,
@@ -157,9 +180,21 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
       slopes: fit.slopes.map((s) => ({ covariate: s.covariate, slope: s.estimate, standardError: s.standardError })),
       adjustedMeans: adjustedMeans(design, fit, usedFactors, compact, offset),
       slopeHomogeneity: fit.slopeHomogeneity.map((s) => ({ term: s.factor, covariate: s.covariate, df1: s.df1, df2: s.df2, f: s.f, p: s.p })),
-    },
-    diagnostics,
   };
+  const context: ResponseContext = {
+    design,
+    responseIndex,
+    anchors,
+    runs: selected,
+    y: centred.values,
+    offset,
+    levelsOf: (factor) => compact.get(factor),
+    input: { y: centred.values, factors: modelFactors, covariates, terms: modelTerms, ssType: settings.ssType },
+    modelTerms: terms,
+    fit,
+    result,
+  };
+  return { result, diagnostics, context };
 }
 
 function uniqueIndices(terms: readonly DesignTerm[], kind: "factor" | "covariate"): number[] {

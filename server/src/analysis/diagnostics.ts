@@ -36,6 +36,7 @@ export const DIAGNOSTIC_RULES = {
   "zero-variance": { severity: "warning", summary: "The residuals are all zero, so F tests are undefined." },
   "aliased-term": { severity: "warning", summary: "A model term cannot be separated from other terms with the runs available." },
   "single-observation": { severity: "information", summary: "A level or cell has a single measured run, so its spread is unknown." },
+  "internal-error": { severity: "error", summary: "Part of the analysis failed because of a bug in Trialbook; the rest is still reported." },
   "value-out-of-range": { severity: "error", summary: "A number is too large or too small to be represented." },
 } as const satisfies Record<string, DiagnosticRule>;
 
