@@ -134,7 +134,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
 
   const fit = fitLinearModel({ y: centred.values, factors: modelFactors, covariates, terms: modelTerms, ssType: settings.ssType });
   if (!fit.ok) {
-    diagnostics.push(diagnostic(fit.code === "zero-variance" ? "zero-variance" : fit.code === "single-observation" ? "single-observation" : "no-data", anchors.response, `'${response.name}' cannot be analysed: ${fit.reason}`));
+    diagnostics.push(diagnostic(fit.code === "zero-variance" ? "zero-variance" : fit.code === "single-observation" ? "single-observation" : "no-data", anchors.response, `'${response.name}' cannot be analysed. ${fit.reason}`));
     return { result: { ...empty, means: rawMeans(design, meanFactors, compact, centred.values, offset, null, settings.confidence) }, diagnostics };
   }
 

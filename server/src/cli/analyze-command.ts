@@ -11,9 +11,9 @@ import { choice, parseArguments, probability } from "./arguments.js";
 import { locateDiagnostics } from "./check-command.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 
-export const ANALYZE_USAGE = `Usage: trialbook analyze FILE [--format text|json] [--ss-type I|II|III] [--alpha A] [--confidence C]
-  Prints the ANOVA table, R², residual SD and means of every response. Flags override the file's plan
-  for this run only. Exit code 1 when the file has errors, 0 otherwise.`;
+export const ANALYZE_USAGE = `Usage: trialbook analyze FILE... [--format text|json] [--ss-type I|II|III] [--alpha A] [--confidence C]
+  Prints the ANOVA table, R², residual SD and means of every response (JSON: one file at a time).
+  Flags override the file's plan for this run only. Exit code 1 when a file has errors, 0 otherwise.`;
 
 export const CAUTION =
   "Statistical significance is not engineering acceptance. Where a change affects safety, health or structural integrity, apply the relevant standards and have qualified, licensed people review it.";
@@ -26,19 +26,23 @@ export async function analyzeCommand(args: readonly string[], io: CliIo): Promis
     alpha: { type: "string" },
     confidence: { type: "string" },
   });
-  if (positionals.length !== 1) throw new UsageError("analyze takes exactly one .trial file.");
   const format = choice(values.format, "format", ["text", "json"] as const) ?? "text";
+  if (positionals.length === 0) throw new UsageError("analyze needs a .trial file.");
+  if (format === "json" && positionals.length !== 1) throw new UsageError("analyze --format json takes exactly one .trial file.");
   const ssType = choice<SumsOfSquaresType>(values["ss-type"], "ss-type", ["I", "II", "III"]);
   const alpha = probability(values.alpha, "alpha");
   const confidence = probability(values.confidence, "confidence");
-  const path = positionals[0]!;
-  const text = await readFile(resolve(io.cwd, path), "utf8").catch(() => {
-    throw new UsageError(`Cannot read '${path}'.`);
-  });
-  const analysis = analyzeDocument(text, {}, { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) });
-  const diagnostics = locateDiagnostics(text, analysis.diagnostics);
-  io.stdout(format === "json" ? JSON.stringify(analysisJson(path, analysis, diagnostics), null, 2) + "\n" : analysisText(path, analysis, diagnostics));
-  return diagnostics.some((d) => d.severity === "error") ? EXIT_PROBLEMS : EXIT_OK;
+  let exit = EXIT_OK;
+  for (const path of positionals) {
+    const text = await readFile(resolve(io.cwd, path), "utf8").catch(() => {
+      throw new UsageError(`Cannot read '${path}'.`);
+    });
+    const analysis = analyzeDocument(text, {}, { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) });
+    const diagnostics = locateDiagnostics(text, analysis.diagnostics);
+    io.stdout(format === "json" ? JSON.stringify(analysisJson(path, analysis, diagnostics), null, 2) + "\n" : analysisText(path, analysis, diagnostics));
+    if (diagnostics.some((d) => d.severity === "error")) exit = EXIT_PROBLEMS;
+  }
+  return exit;
 }
 
 /** The `analyze --format json` document (design brief §5; docs/json-output.md). */
