@@ -1,3 +1,10 @@
-// Placeholder until the language-server issue lands: no LSP features are implemented yet.
-process.stderr.write("trialbook: the language server is not implemented yet\n");
-process.exit(1);
+/**
+ * The language server's entry point (bundled to dist/server.cjs). The transport comes from the command
+ * line as vscode-languageserver reads it: `--stdio`, `--node-ipc` or `--socket=PORT`.
+ */
+import { createConnection, ProposedFeatures } from "vscode-languageserver/node";
+import { createServer } from "./server.js";
+
+const connection = createConnection(ProposedFeatures.all);
+createServer(connection);
+connection.listen();

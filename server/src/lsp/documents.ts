@@ -1,0 +1,177 @@
+/**
+ * Open documents and their analyses. Documents are synced incrementally (the `TextDocuments` manager applies
+ * the edits); analyses are cached per document version, debounced by `trialbook.analysisDelay`, and
+ * abandoned when a newer edit arrives before they finish. Closing a document clears its diagnostics.
+ */
+import { LineIndex } from "../../../grammar/src/line-index.js";
+import { parseTrial } from "../../../grammar/src/parse.js";
+import type { AnalysisSettings } from "../analysis/build-design.js";
+import { analyzeParsed } from "../analysis/analyze-document.js";
+import type { DocumentAnalysis } from "../analysis/results.js";
+import { type Connection, type Diagnostic as LspDiagnostic, TextDocuments } from "vscode-languageserver/node";
+import { TextDocument } from "vscode-languageserver-textdocument";
+import { toLspDiagnostics } from "./convert.js";
+import { type ServerSettings, toAnalysisDefaults } from "./settings.js";
+
+/** One version of one document with everything the feature handlers read. Immutable. */
+export interface AnalyzedDocument {
+  readonly uri: string;
+  readonly version: number;
+  readonly text: string;
+  readonly lineIndex: LineIndex;
+  readonly analysis: DocumentAnalysis;
+}
+
+/** Parses and analyses a text: what the store caches, and what in-process tests call directly. */
+export function analyzeText(uri: string, version: number, text: string, defaults: AnalysisSettings = {}): AnalyzedDocument {
+  return { uri, version, text, lineIndex: new LineIndex(text), analysis: analyzeParsed(parseTrial(text), defaults) };
+}
+
+/** Where the store sends diagnostics and log lines; the server passes the connection's. */
+export interface DocumentStoreSinks {
+  publish(uri: string, version: number | undefined, diagnostics: LspDiagnostic[]): void;
+  logError(message: string): void;
+}
+
+/** Counters for tests and the benchmark: how much work was done and how much was abandoned. */
+export interface DocumentStoreStats {
+  analyses: number;
+  abandoned: number;
+}
+
+/**
+ * The open documents of one server. `get` returns the analysis of a document's current version, computing
+ * it on demand when a request arrives before the debounced analysis has run.
+ */
+export class DocumentStore {
+  private readonly documents = new TextDocuments(TextDocument);
+  private readonly cache = new Map<string, AnalyzedDocument>();
+  private readonly timers = new Map<string, { cancel(): void }>();
+  /** Statistics since start; never reset. */
+  readonly stats: DocumentStoreStats = { analyses: 0, abandoned: 0 };
+
+  constructor(
+    private readonly sinks: DocumentStoreSinks,
+    private readonly settings: () => ServerSettings,
+  ) {
+    this.documents.onDidChangeContent((e) => this.schedule(e.document.uri));
+    this.documents.onDidClose((e) => this.close(e.document.uri));
+  }
+
+  /** Starts listening for didOpen/didChange/didClose on the connection. */
+  listen(connection: Connection): void {
+    this.documents.listen(connection);
+  }
+
+  /** The analysed current version of an open document, or undefined when it is not open. */
+  get(uri: string): AnalyzedDocument | undefined {
+    const doc = this.documents.get(uri);
+    if (!doc) return undefined;
+    const cached = this.cache.get(uri);
+    if (cached && cached.version === doc.version) return cached;
+    const fresh = analyzeText(uri, doc.version, doc.getText(), toAnalysisDefaults(this.settings()));
+    this.stats.analyses++;
+    this.cache.set(uri, fresh);
+    return fresh;
+  }
+
+  /** The URIs of all open documents. */
+  uris(): string[] {
+    return this.documents.keys();
+  }
+
+  /** Drops every cached analysis and re-analyses every open document (after a settings change). */
+  reanalyzeAll(): void {
+    this.cache.clear();
+    for (const uri of this.uris()) this.schedule(uri);
+  }
+
+  /**
+   * Schedules the analysis of a document's current version after the configured delay. A newer edit
+   * restarts the delay; work already started is abandoned at its next checkpoint when the version moved on.
+   */
+  private schedule(uri: string): void {
+    this.timers.get(uri)?.cancel();
+    const doc = this.documents.get(uri);
+    if (!doc) return;
+    const version = doc.version;
+    const delay = this.settings().analysisDelay;
+    const run = () => {
+      this.timers.delete(uri);
+      this.runAnalysis(uri, version);
+    };
+    if (delay <= 0) {
+      const handle = setImmediate(run);
+      this.timers.set(uri, { cancel: () => clearImmediate(handle) });
+    } else {
+      const handle = setTimeout(run, delay);
+      this.timers.set(uri, { cancel: () => clearTimeout(handle) });
+    }
+  }
+
+  /** True when `version` is still the document's current version. */
+  private isCurrent(uri: string, version: number): boolean {
+    return this.documents.get(uri)?.version === version;
+  }
+
+  /**
+   * Parses, yields to the event loop (so that edits already waiting are applied first), then analyses
+   * and publishes, unless a newer version appeared in between: then the stale work is dropped.
+   */
+  private runAnalysis(uri: string, version: number): void {
+    try {
+      const doc = this.documents.get(uri);
+      if (!doc || doc.version !== version) return;
+      const cached = this.cache.get(uri);
+      if (cached && cached.version === version) {
+        this.publish(cached);
+        return;
+      }
+      const text = doc.getText();
+      const file = parseTrial(text);
+      const handle = setImmediate(() => {
+        this.timers.delete(uri);
+        try {
+          if (!this.isCurrent(uri, version)) {
+            this.stats.abandoned++;
+            return;
+          }
+          const again = this.cache.get(uri);
+          const analyzed =
+            again && again.version === version
+              ? again
+              : { uri, version, text, lineIndex: new LineIndex(text), analysis: analyzeParsed(file, toAnalysisDefaults(this.settings())) };
+          if (analyzed !== again) this.stats.analyses++;
+          if (!this.isCurrent(uri, version)) {
+            this.stats.abandoned++;
+            return;
+          }
+          this.cache.set(uri, analyzed);
+          this.publish(analyzed);
+        } catch (error) {
+          this.sinks.logError(`analysis of ${uri} failed: ${describeError(error)}`);
+        }
+      });
+      this.timers.set(uri, { cancel: () => clearImmediate(handle) });
+    } catch (error) {
+      this.sinks.logError(`analysis of ${uri} failed: ${describeError(error)}`);
+    }
+  }
+
+  private publish(doc: AnalyzedDocument): void {
+    this.sinks.publish(doc.uri, doc.version, toLspDiagnostics(doc.analysis.diagnostics, doc.lineIndex, doc.uri));
+  }
+
+  private close(uri: string): void {
+    this.timers.get(uri)?.cancel();
+    this.timers.delete(uri);
+    this.cache.delete(uri);
+    this.sinks.publish(uri, undefined, []);
+  }
+}
+
+/** A one-line description of anything thrown, with the stack when there is one. */
+export function describeError(error: unknown): string {
+  if (error instanceof Error) return error.stack ?? `${error.name}: ${error.message}`;
+  return String(error);
+}
