@@ -37,7 +37,11 @@ export function codeActions(doc: AnalyzedDocument, params: CodeActionParams, cap
         actions.push(action);
       }
     }
-    const gap = touching.find((d) => d.code === "missing-replicate" || d.code === "empty-cell");
+    // Offered on a missing-replicate or empty-cell diagnostic, and anywhere in the runs table while one exists.
+    const isGap = (d: Diagnostic) => d.code === "missing-replicate" || d.code === "empty-cell";
+    const runs = doc.analysis.file.runs;
+    const inTable = runs !== undefined && runs.span.start <= span.start && span.start <= runs.span.end;
+    const gap = touching.find(isGap) ?? (inTable ? doc.analysis.diagnostics.find(isGap) : undefined);
     if (gap) {
       const action = addMissingRuns(doc, gap);
       if (action) actions.push(action);
