@@ -31,6 +31,11 @@ export function formatP(p: number | null | undefined): string {
   return p.toExponential(1);
 }
 
+/** "p = 0.0007", or "p < 1e-300" when the upper tail underflows a double. */
+export function pClause(p: number | null | undefined): string {
+  return p === 0 ? "p < 1e-300" : `p = ${formatP(p)}`;
+}
+
 /** An F statistic: two decimals for ordinary values. */
 export function formatF(f: number | null | undefined): string {
   if (f === null || f === undefined || !Number.isFinite(f)) return MISSING;

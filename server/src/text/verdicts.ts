@@ -1,5 +1,5 @@
 import type { AnovaRow, ResponseAnalysis } from "../analysis/results.js";
-import { formatF, formatP } from "./format-number.js";
+import { formatF, pClause } from "./format-number.js";
 
 /** The degrees of freedom of the residual row, or undefined when the table has none. */
 export function residualDf(analysis: ResponseAnalysis): number | undefined {
@@ -13,7 +13,7 @@ export function termRows(analysis: ResponseAnalysis): AnovaRow[] {
 
 /** `F(3, 16) = 9.84, p = 0.0007` for a term row. */
 export function testSummary(row: AnovaRow, dfResidual: number | undefined): string {
-  return `F(${row.df}, ${dfResidual ?? "?"}) = ${formatF(row.f)}, p = ${formatP(row.p)}`;
+  return `F(${row.df}, ${dfResidual ?? "?"}) = ${formatF(row.f)}, ${pClause(row.p)}`;
 }
 
 /**
