@@ -3,6 +3,7 @@ import { resolve } from "node:path";
 import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { SumsOfSquaresType } from "../analysis/design.js";
 import { alignColumns } from "../text/align-columns.js";
+import { CAUTION } from "../text/caution.js";
 import { formatF, formatNumber, formatP, formatStatistic, MISSING } from "../text/format-number.js";
 import { termRows, termVerdict } from "../text/verdicts.js";
 import type { DocumentAnalysis, ResponseAnalysis } from "../analysis/results.js";
@@ -15,8 +16,8 @@ export const ANALYZE_USAGE = `Usage: trialbook analyze FILE... [--format text|js
   Prints the ANOVA table, R², residual SD and means of every response (JSON: one file at a time).
   Flags override the file's plan for this run only. Exit code 1 when a file has errors, 0 otherwise.`;
 
-export const CAUTION =
-  "Statistical significance is not engineering acceptance. Where a change affects safety, health or structural integrity, apply the relevant standards and have qualified, licensed people review it.";
+/** Re-exported for modules that imported it from here before it moved to text/caution.ts. */
+export { CAUTION };
 
 /** `trialbook analyze`: results of one file as text or as the JSON contract. */
 export async function analyzeCommand(args: readonly string[], io: CliIo): Promise<number> {
