@@ -160,13 +160,26 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     { source: "Total", df: fit.total.df, ss: fit.total.ss },
   ];
   const pooled = { ms: fit.residual.ms, df: fit.residual.df };
+  const means = rawMeans(design, meanFactors, compact, centred.values, offset, pooled, settings.confidence);
+  for (const m of means) {
+    if (m.n !== 1 || m.term.includes(" x ")) continue;
+    const factor = design.factors.find((f) => f.name === m.term);
+    const level = factor?.levels.find((l) => l.name === m.level);
+    diagnostics.push(
+      diagnostic(
+        "single-observation",
+        level?.span ?? anchors.response,
+        `Level '${m.level}' of '${m.term}' has a single measured run of '${response.name}': its spread is unknown and its mean rests on one value. Add replicates to judge it.`,
+      ),
+    );
+  }
 
   const result: ResponseAnalysis = {
       ...empty,
       anova,
       rSquared: fit.rSquared,
       residualSd: fit.residualSd,
-      means: rawMeans(design, meanFactors, compact, centred.values, offset, pooled, settings.confidence),
+      means,
       effectSizes: fit.effectSizes.map((e) => ({ term: e.source, etaSquared: e.etaSquared, partialEtaSquared: e.partialEtaSquared, omegaSquared: e.omegaSquared })),
       residuals: selected.map((r, i) => ({
         run: runs.ids[r]!,
