@@ -2,6 +2,7 @@ import type { Span, TrialFile } from "../../../grammar/src/ast.js";
 import { parseTrial } from "../../../grammar/src/parse.js";
 import { analyzeResponse, type ResponseContext } from "./analyze-response.js";
 import { type AnalysisSettings, buildDesign } from "./build-design.js";
+import { checkSystematicOrder } from "./checks/systematic-order.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
 import type { DocumentAnalysis, ResponseAnalysis } from "./results.js";
 
@@ -27,6 +28,7 @@ export function analyzeDocument(text: string, defaults: AnalysisSettings = {}, o
 export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}): DocumentAnalysis {
   const { design, diagnostics: structural } = buildDesign(file, defaults, overrides);
   const diagnostics: Diagnostic[] = [...structural];
+  diagnostics.push(...checkSystematicOrder(file, design));
   const responses: ResponseAnalysis[] = [];
   // A file with errors in its design still gets an analysis of what could be read: the user sees both.
   const termSpans = modelTermSpans(file);

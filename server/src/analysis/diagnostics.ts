@@ -38,6 +38,7 @@ export const DIAGNOSTIC_RULES = {
   "single-observation": { severity: "information", summary: "A level or cell has a single measured run, so its spread is unknown." },
   "internal-error": { severity: "error", summary: "Part of the analysis failed because of a bug in Trialbook; the rest is still reported." },
   "value-out-of-range": { severity: "error", summary: "A number is too large or too small to be represented." },
+  "systematic-order": { severity: "warning", summary: "The run order is tied to the levels of a treatment factor, so a drift over time would be confounded with its effect." },
 } as const satisfies Record<string, DiagnosticRule>;
 
 /** A diagnostic code: one of the keys of `DIAGNOSTIC_RULES`. */

@@ -5,12 +5,14 @@ import { exportCommand, EXPORT_USAGE } from "./export-command.js";
 import { importCommand, IMPORT_USAGE } from "./import-command.js";
 import { type CliIo, EXIT_OK, EXIT_USAGE, UsageError } from "./io.js";
 import { planCommand, PLAN_USAGE } from "./plan-command.js";
+import { planCommand, PLAN_USAGE } from "./plan-command.js";
 import { VERSION } from "../version.js";
 
 const VERBS: Record<string, { run: (args: readonly string[], io: CliIo) => Promise<number>; usage: string }> = {
   check: { run: checkCommand, usage: CHECK_USAGE },
   analyze: { run: analyzeCommand, usage: ANALYZE_USAGE },
   import: { run: importCommand, usage: IMPORT_USAGE },
+  plan: { run: planCommand, usage: PLAN_USAGE },
   plan: { run: planCommand, usage: PLAN_USAGE },
   compare: { run: compareCommand, usage: COMPARE_USAGE },
   export: { run: exportCommand, usage: EXPORT_USAGE },
@@ -24,6 +26,7 @@ Verbs:
   check     diagnostics for .trial files; exit code 1 on errors
   analyze   ANOVA tables and means for one file (--format text|json)
   import    write a .trial file from a CSV table
+  plan      write the randomized run sheet into a .trial file (or print it as HTML/Markdown)
   export    write the runs of a .trial file as CSV
   compare   what changed between two revisions of a file (text or Markdown)
 
