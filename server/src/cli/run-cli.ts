@@ -5,7 +5,7 @@ import { exportCommand, EXPORT_USAGE } from "./export-command.js";
 import { importCommand, IMPORT_USAGE } from "./import-command.js";
 import { type CliIo, EXIT_OK, EXIT_USAGE, UsageError } from "./io.js";
 import { planCommand, PLAN_USAGE } from "./plan-command.js";
-import { planCommand, PLAN_USAGE } from "./plan-command.js";
+import { reportCommand, REPORT_USAGE } from "./report-command.js";
 import { VERSION } from "../version.js";
 
 const VERBS: Record<string, { run: (args: readonly string[], io: CliIo) => Promise<number>; usage: string }> = {
@@ -13,9 +13,9 @@ const VERBS: Record<string, { run: (args: readonly string[], io: CliIo) => Promi
   analyze: { run: analyzeCommand, usage: ANALYZE_USAGE },
   import: { run: importCommand, usage: IMPORT_USAGE },
   plan: { run: planCommand, usage: PLAN_USAGE },
-  plan: { run: planCommand, usage: PLAN_USAGE },
   compare: { run: compareCommand, usage: COMPARE_USAGE },
   export: { run: exportCommand, usage: EXPORT_USAGE },
+  report: { run: reportCommand, usage: REPORT_USAGE },
 };
 
 const USAGE = `trialbook ${VERSION}: designed experiments in plain-text .trial files
@@ -26,6 +26,7 @@ Verbs:
   check     diagnostics for .trial files; exit code 1 on errors
   analyze   ANOVA tables and means for one file (--format text|json)
   import    write a .trial file from a CSV table
+  report    the analysis report with plots as HTML or Markdown
   plan      write the randomized run sheet into a .trial file (or print it as HTML/Markdown)
   export    write the runs of a .trial file as CSV
   compare   what changed between two revisions of a file (text or Markdown)
