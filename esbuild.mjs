@@ -2,6 +2,23 @@
 // bundles are CommonJS files with a .cjs extension: VS Code's extension host loads them with require().
 import { build } from "esbuild";
 
+/**
+ * vega-canvas (pulled in by vega) starts with a top-level `await import('canvas')`, which a CommonJS
+ * bundle cannot contain. Trialbook draws plots only as SVG strings (renderer "none"), never on a canvas,
+ * so the bundles get this stub instead: no canvas and no image, which Vega handles by estimating text
+ * widths from the font size.
+ */
+const vegaCanvasStub = {
+  name: "vega-canvas-stub",
+  setup(b) {
+    b.onResolve({ filter: /^vega-canvas$/ }, () => ({ path: "vega-canvas", namespace: "vega-canvas-stub" }));
+    b.onLoad({ filter: /.*/, namespace: "vega-canvas-stub" }, () => ({
+      contents: "export function canvas() { return null; }\nexport function image() { return null; }\n",
+      loader: "js",
+    }));
+  },
+};
+
 const common = {
   bundle: true,
   platform: "node",
@@ -9,6 +26,7 @@ const common = {
   format: "cjs",
   sourcemap: true,
   logLevel: "warning",
+  plugins: [vegaCanvasStub],
 };
 
 await Promise.all([
