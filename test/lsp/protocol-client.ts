@@ -72,9 +72,9 @@ export class ProtocolClient {
     connection.onRequest("window/workDoneProgress/create", () => null);
   }
 
-  /** Spawns the server over stdio and sends initialize/initialized with editor-like capabilities. */
-  static async start(settings: Record<string, unknown> = { analysisDelay: 0 }): Promise<ProtocolClient> {
-    const child = spawn(process.execPath, [SERVER_BUNDLE, "--stdio"], { stdio: ["pipe", "pipe", "pipe"] });
+  /** Spawns the server over stdio (`nodeArgs` go to node, e.g. `--cpu-prof`) and sends initialize/initialized with editor-like capabilities. */
+  static async start(settings: Record<string, unknown> = { analysisDelay: 0 }, nodeArgs: readonly string[] = []): Promise<ProtocolClient> {
+    const child = spawn(process.execPath, [...nodeArgs, SERVER_BUNDLE, "--stdio"], { stdio: ["pipe", "pipe", "pipe"] });
     child.stderr!.resume();
     const connection = createMessageConnection(new StreamMessageReader(child.stdout!), new StreamMessageWriter(child.stdin!));
     const client = new ProtocolClient(child, connection, settings);
