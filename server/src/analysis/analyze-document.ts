@@ -5,6 +5,9 @@ import { type AnalysisSettings, buildDesign } from "./build-design.js";
 import { checkSystematicOrder } from "./checks/systematic-order.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
 import type { DocumentAnalysis, ResponseAnalysis } from "./results.js";
+import { comparisonsExtension } from "./extensions/comparisons.js";
+import { modelChecksExtension } from "./extensions/model-checks.js";
+import { powerExtension } from "./extensions/power.js";
 
 /**
  * An analysis that builds on a response's fit and adds named keys to its result (see results.ts), with
@@ -13,7 +16,11 @@ import type { DocumentAnalysis, ResponseAnalysis } from "./results.js";
 export type ResponseExtension = (context: ResponseContext) => { readonly add: Partial<ResponseAnalysis>; readonly diagnostics: readonly Diagnostic[] };
 
 /** The extensions every analysis runs. Add one line per feature module. */
-const RESPONSE_EXTENSIONS: readonly ResponseExtension[] = [];
+const RESPONSE_EXTENSIONS: readonly ResponseExtension[] = [
+  comparisonsExtension,
+  modelChecksExtension,
+  powerExtension,
+];
 
 /**
  * The engine's single entry point: parse, build the design, analyse every response.

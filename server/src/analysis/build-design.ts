@@ -14,6 +14,7 @@ import type {
 } from "./design.js";
 import { ValueStatus } from "./design.js";
 import { type Diagnostic, DiagnosticSink, diagnostic } from "./diagnostics.js";
+import { resolvePairwise } from "./resolve-pairwise.js";
 
 /** Analysis settings that can come from outside the file: editor settings (defaults) or CLI flags (overrides). */
 export interface AnalysisSettings {
@@ -61,6 +62,8 @@ export function buildDesign(file: TrialFile, defaults: AnalysisSettings = {}, ov
     runs,
     cellFactors,
     hasFraction,
+    // Comparisons feature: `plan pairwise` terms and the spans of plan settings (resolve-pairwise.ts).
+    ...resolvePairwise(file, factors, sink),
   };
   if (runs.count > 0) checkCells(design, file, sink);
   return { design, diagnostics: sink.finish() };

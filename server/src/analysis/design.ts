@@ -109,4 +109,8 @@ export interface Design {
   /** Indices of the factors whose level combinations form the design's cells (fixed and block factors). */
   readonly cellFactors: readonly number[];
   readonly hasFraction: boolean;
+  /** `plan pairwise A x B`: the interaction terms whose cells are compared pairwise (factor indices). */
+  readonly pairwise?: readonly { readonly name: string; readonly factors: readonly number[]; readonly span: Span }[];
+  /** Spans of plan settings that analysis diagnostics point at (`replicates`, `detect <response>`). */
+  readonly planSpans?: { readonly replicates?: Span; readonly detect?: ReadonlyMap<string, Span> };
 }

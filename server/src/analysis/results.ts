@@ -94,6 +94,20 @@ export interface ResponseAnalysis {
   /** The significance level the verdicts use (file, then editor setting, then 0.05). */
   readonly alpha: number;
   readonly confidence: number;
+  /** Pairwise comparisons of level (and `pairwise A x B` cell) means (docs/json-output-comparisons.md). */
+  readonly comparisons?: readonly ComparisonResult[];
+  /** Compact letter display of the Tukey comparisons: levels sharing a letter do not differ. */
+  readonly groups?: readonly LetterGroup[];
+  /** The best level of each compared term by the response's goal, with the levels indistinguishable from it. */
+  readonly best?: readonly BestLevel[];
+  /** Orthogonal polynomial contrasts of numeric, equally spaced factors. */
+  readonly contrasts?: readonly PolynomialContrastResult[];
+  /** Model checks: equal variances and normal residuals; a check that cannot be computed is absent. */
+  readonly checks?: ModelChecks;
+  /** Tests that do not assume what a failed check questions (one-factor and blocked one-factor designs). */
+  readonly alternatives?: AlternativeTests;
+  /** Power of each fixed main effect's F test to detect `plan detect` at the observed residual SD. */
+  readonly power?: readonly PowerResult[];
 }
 
 /** The whole result for one document: what every face (editor, CLI, report) shows. */
@@ -103,4 +117,88 @@ export interface DocumentAnalysis {
   /** Structural and analysis diagnostics, in no particular order. */
   readonly diagnostics: readonly Diagnostic[];
   readonly responses: readonly ResponseAnalysis[];
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Comparisons, model checks, alternatives and power (docs/json-output-comparisons.md)
+
+/** One pairwise comparison: `diff` is mean a - mean b, with its interval and multiplicity-adjusted p. */
+export interface ComparisonResult {
+  readonly term: string;
+  readonly method: "tukey" | "lsd" | "bonferroni" | "holm" | "games-howell" | "dunnett";
+  readonly a: string;
+  readonly b: string;
+  readonly diff: number;
+  readonly lower: number | null;
+  readonly upper: number | null;
+  readonly p: number | null;
+}
+
+/** The letters of one level (or cell) in the compact letter display of the Tukey comparisons. */
+export interface LetterGroup {
+  readonly term: string;
+  readonly level: string;
+  readonly mean: number;
+  readonly letters: string;
+}
+
+/** The best level by the response's goal and the levels whose Tukey comparison with it is not significant. */
+export interface BestLevel {
+  readonly term: string;
+  readonly goal: "maximize" | "minimize" | "target";
+  readonly level: string;
+  readonly indistinguishable: readonly string[];
+}
+
+/** One orthogonal polynomial contrast (degree 1 linear, 2 quadratic) of a numeric factor's level means. */
+export interface PolynomialContrastResult {
+  readonly term: string;
+  readonly contrast: "linear" | "quadratic";
+  readonly estimate: number;
+  readonly standardError: number | null;
+  readonly t: number | null;
+  readonly df: number;
+  readonly p: number | null;
+}
+
+/** An F test of a check. */
+export interface CheckFTest {
+  readonly statistic: number;
+  readonly df1: number;
+  readonly df2: number;
+  readonly p: number;
+}
+
+/** The model checks of one response; each key is absent when its check could not be computed. */
+export interface ModelChecks {
+  /** The groups the variance tests compare: the cells of the fixed factors in the model, e.g. "profile x line". */
+  readonly groupsBy?: string;
+  readonly levene?: CheckFTest;
+  readonly brownForsythe?: CheckFTest;
+  readonly bartlett?: { readonly statistic: number; readonly df: number; readonly p: number };
+  readonly shapiroWilk?: { readonly w: number; readonly p: number; readonly n: number };
+  /** Runs whose externally studentized residual exceeds the Bonferroni bound. */
+  readonly outliers?: readonly { readonly run: string; readonly row: number; readonly studentized: number; readonly p: number }[];
+  /** Slope of log SD on log mean over the groups and the power transformation λ = 1 - slope it suggests. */
+  readonly varianceMean?: { readonly slope: number; readonly lambda: number };
+}
+
+/** Alternative tests; each key is absent where it does not apply or cannot be computed. */
+export interface AlternativeTests {
+  readonly term?: string;
+  readonly welch?: CheckFTest;
+  readonly kruskalWallis?: { readonly statistic: number; readonly df: number; readonly p: number };
+  readonly friedman?: { readonly statistic: number; readonly df: number; readonly p: number; readonly block: string };
+  readonly welchT?: { readonly a: string; readonly b: string; readonly diff: number; readonly statistic: number; readonly df: number; readonly p: number };
+}
+
+/** Power of one main effect's F test; `replicatesNeeded` is null when no count up to 1000 reaches the target. */
+export interface PowerResult {
+  readonly term: string;
+  readonly difference: number;
+  readonly sigma: number;
+  readonly replicates: number;
+  readonly power: number;
+  readonly target: number;
+  readonly replicatesNeeded: number | null;
 }

@@ -1,0 +1,63 @@
+import type { ResponseContext } from "../analyze-response.js";
+import { type GroupSummary, summarizeGroups } from "../../stats/comparisons/group-summary.js";
+
+/** The groups of one compared term: a factor's levels or an interaction's cells, with labels and summaries. */
+export interface ComparedGroups {
+  readonly term: string;
+  /** Factor indices in the design, one for a main effect. */
+  readonly factors: readonly number[];
+  readonly labels: readonly string[];
+  /** Per observation of the fit: its group. */
+  readonly codes: Int32Array;
+  /** Summaries of the centred values (add `context.offset` to a mean for the response scale). */
+  readonly summaries: readonly GroupSummary[];
+  /** Declared level index per group for a single factor (to find the control and numeric values). */
+  readonly declared: readonly number[];
+}
+
+/** Fixed factors whose main effect is in the fitted model, in declaration order. */
+export function fixedMainEffects(context: ResponseContext): number[] {
+  const out: number[] = [];
+  for (const term of context.modelTerms) {
+    if (term.variables.length !== 1 || term.variables[0]!.kind !== "factor") continue;
+    const f = term.variables[0]!.index;
+    if (context.design.factors[f]!.role === "fixed" && context.design.factors[f]!.within === undefined) out.push(f);
+  }
+  return out.sort((a, b) => a - b);
+}
+
+/** Fixed factors appearing in any fitted term. */
+export function fixedFactorsInModel(context: ResponseContext): number[] {
+  const seen = new Set<number>();
+  for (const term of context.modelTerms) for (const v of term.variables) if (v.kind === "factor" && context.design.factors[v.index]!.role === "fixed") seen.add(v.index);
+  return [...seen].sort((a, b) => a - b);
+}
+
+/** The groups formed by crossing `factors` over the fit's observations (undefined when a factor has no codes). */
+export function groupsOf(context: ResponseContext, factors: readonly number[]): ComparedGroups | undefined {
+  const parts = factors.map((f) => context.levelsOf(f));
+  if (parts.some((p) => p === undefined)) return undefined;
+  const sizes = parts.map((p) => p!.levels.length);
+  const count = sizes.reduce((a, b) => a * b, 1);
+  const codes = new Int32Array(context.y.length);
+  for (let i = 0; i < codes.length; i++) {
+    let code = 0;
+    parts.forEach((p, j) => (code = code * sizes[j]! + p!.codes[i]!));
+    codes[i] = code;
+  }
+  const labels: string[] = [];
+  const declared: number[] = [];
+  for (let c = 0; c < count; c++) {
+    let rest = c;
+    const names: string[] = new Array(factors.length);
+    for (let j = factors.length - 1; j >= 0; j--) {
+      const level = parts[j]!.levels[rest % sizes[j]!]!;
+      names[j] = context.design.factors[factors[j]!]!.levels[level]!.name;
+      if (factors.length === 1) declared.push(level);
+      rest = Math.floor(rest / sizes[j]!);
+    }
+    labels.push(names.join(" x "));
+  }
+  const term = factors.map((f) => context.design.factors[f]!.name).join(" x ");
+  return { term, factors, labels, codes, summaries: summarizeGroups(context.y, codes, count), declared };
+}
