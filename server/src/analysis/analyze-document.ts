@@ -1,6 +1,6 @@
 import type { Span, TrialFile } from "../../../grammar/src/ast.js";
 import { parseTrial } from "../../../grammar/src/parse.js";
-import { analyzeResponse, type ResponseContext } from "./analyze-response.js";
+import { analyzeResponse, extendResult, type ResponseContext } from "./analyze-response.js";
 import { type AnalysisSettings, buildDesign } from "./build-design.js";
 import { checkSystematicOrder } from "./checks/systematic-order.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
@@ -48,7 +48,7 @@ export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, 
         // One failing analysis must not take the others down: report it where the response is declared.
         try {
           const { add, diagnostics: more } = extension({ ...context, result: extended });
-          extended = { ...extended, ...add };
+          extended = extendResult(extended, add);
           diagnostics.push(...more);
         } catch (error) {
           diagnostics.push(diagnostic("internal-error", response.span, `Part of the analysis of '${response.name}' failed (${error instanceof Error ? error.message : String(error)}). This is a bug in Trialbook: please report it with this file.`));

@@ -5,7 +5,7 @@ import { groupMeans } from "../stats/linear-model/group-means.js";
 import type { LinearModelInput, LinearModelResult, ModelFactor, ModelTerm } from "../stats/linear-model/types.js";
 import { type Design, type DesignTerm, ValueStatus } from "./design.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
-import type { AdjustedLevelMean, AnovaRow, LevelMean, ResponseAnalysis } from "./results.js";
+import type { AdjustedLevelMean, AnovaRow, LevelMean, ResponseAnalysis, RunResidual } from "./results.js";
 
 /** Where analysis diagnostics about a term or response point: the model term if written, else the response. */
 export interface AnalysisAnchors {
@@ -54,10 +54,13 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const allFactors = [...new Set([...usedFactors, ...meanFactors])];
   const status = runs.responseStatus[responseIndex]!;
   const selected: number[] = [];
-  for (let r = 0; r < runs.count; r++) {
+  // Plain loops over typed arrays (no closure per run): this runs once per response over every run.
+  const factorLevels = allFactors.map((f) => runs.levels[f]!);
+  const covariateStatus = usedCovariates.map((c) => runs.covariateStatus[c]!);
+  rows: for (let r = 0; r < runs.count; r++) {
     if (runs.excluded[r] || status[r] !== ValueStatus.Measured) continue;
-    if (allFactors.some((f) => runs.levels[f]![r]! < 0)) continue;
-    if (usedCovariates.some((c) => runs.covariateStatus[c]![r] !== ValueStatus.Measured)) continue;
+    for (let q = 0; q < factorLevels.length; q++) if (factorLevels[q]![r]! < 0) continue rows;
+    for (let q = 0; q < covariateStatus.length; q++) if (covariateStatus[q]![r] !== ValueStatus.Measured) continue rows;
     selected.push(r);
   }
 
@@ -82,7 +85,8 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     return { result: empty, diagnostics };
   }
 
-  const centred = centerDecimals(selected.map((r) => runs.responseTexts[responseIndex]![r]!));
+  const texts = runs.responseTexts[responseIndex]!;
+  const centred = centerDecimals(selected.map((r) => texts[r]!));
   if (!centred.ok) {
     const r = selected[centred.index]!;
     diagnostics.push(diagnostic("value-out-of-range", runs.responseSpans[responseIndex]![r] ?? anchors.response, `This value of '${response.name}' cannot be analysed: ${centred.reason}`));
@@ -105,7 +109,10 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     }
     present.sort((a, b) => a - b);
     present.forEach((level, i) => (map[level] = i));
-    compact.set(f, { codes: Int32Array.from(selected, (r) => map[runs.levels[f]![r]!]!), levels: present });
+    const declared = runs.levels[f]!;
+    const codes = new Int32Array(selected.length);
+    for (let i = 0; i < selected.length; i++) codes[i] = map[declared[selected[i]!]!]!;
+    compact.set(f, { codes, levels: present });
   }
 
   // Terms involving a factor seen at a single level cannot be estimated: drop them and say so.
@@ -174,6 +181,10 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     );
   }
 
+  // One object per run is the JSON contract, but a million of them cost hundreds of megabytes and most
+  // callers (the text report, check, diagnostics) never read them: they are built on first access and
+  // kept. The getter is enumerable, so JSON.stringify and object spread see a plain array.
+  let residuals: RunResidual[] | undefined;
   const result: ResponseAnalysis = {
       ...empty,
       anova,
@@ -181,15 +192,10 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
       residualSd: fit.residualSd,
       means,
       effectSizes: fit.effectSizes.map((e) => ({ term: e.source, etaSquared: e.etaSquared, partialEtaSquared: e.partialEtaSquared, omegaSquared: e.omegaSquared })),
-      residuals: selected.map((r, i) => ({
-        run: runs.ids[r]!,
-        row: r,
-        fitted: fit.fitted[i]! + offset,
-        residual: fit.residuals[i]!,
-        leverage: fit.leverage[i]!,
-        standardized: fit.standardized[i] ?? null,
-        studentized: fit.studentized[i] ?? null,
-      })),
+      get residuals(): readonly RunResidual[] {
+        residuals ??= runResiduals(selected, runs.ids, fit, offset);
+        return residuals;
+      },
       slopes: fit.slopes.map((s) => ({ covariate: s.covariate, slope: s.estimate, standardError: s.standardError })),
       adjustedMeans: adjustedMeans(design, fit, usedFactors, compact, offset),
       slopeHomogeneity: fit.slopeHomogeneity.map((s) => ({ term: s.factor, covariate: s.covariate, df1: s.df1, df2: s.df2, f: s.f, p: s.p })),
@@ -208,6 +214,32 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     result,
   };
   return { result, diagnostics, context };
+}
+
+/** The per-run residual rows of the JSON contract, in run order. */
+function runResiduals(selected: readonly number[], ids: readonly string[], fit: LinearModelResult, offset: number): RunResidual[] {
+  const out = new Array<RunResidual>(selected.length);
+  for (let i = 0; i < selected.length; i++) {
+    const r = selected[i]!;
+    out[i] = {
+      run: ids[r]!,
+      row: r,
+      fitted: fit.fitted[i]! + offset,
+      residual: fit.residuals[i]!,
+      leverage: fit.leverage[i]!,
+      standardized: fit.standardized[i] ?? null,
+      studentized: fit.studentized[i] ?? null,
+    };
+  }
+  return out;
+}
+
+/**
+ * `{ ...base, ...add }` that keeps accessor properties as accessors, so that merging an extension's keys
+ * into a result does not build its lazily computed `residuals`. Keys keep their order, as with spread.
+ */
+export function extendResult(base: ResponseAnalysis, add: Partial<ResponseAnalysis>): ResponseAnalysis {
+  return Object.defineProperties({}, { ...Object.getOwnPropertyDescriptors(base), ...Object.getOwnPropertyDescriptors(add) }) as ResponseAnalysis;
 }
 
 function uniqueIndices(terms: readonly DesignTerm[], kind: "factor" | "covariate"): number[] {

@@ -1,4 +1,4 @@
-import type { DecimalNumber, FactorDecl, Name, PlanSetting, Span, TrialFile } from "../../../grammar/src/ast.js";
+import type { DecimalNumber, FactorDecl, Name, PlanSetting, RunRows, Span, TrialFile } from "../../../grammar/src/ast.js";
 import { cellText } from "../../../grammar/src/runs-table.js";
 import { emptyScan, rangeReason, scanDecimal, scanValue } from "../stats/decimal/parse-decimal.js";
 import type {
@@ -413,87 +413,91 @@ function readRuns(
   const source = file.source;
   const rows = table.rows;
   const levelIndex = factors.map((f) => new Map(f.levels.map((l, i) => [l.name, i] as const)));
-  const firstIdRow = new Map<string, number>();
+  const levelNames = factors.map((f) => f.levels.map((l) => l.name));
+  const firstIdRow = new IdTable(count);
   const leftCount = table.responseStart;
   const rightCount = table.columns.length - table.responseStart;
+  const columnCount = table.columns.length;
   const idColumn = roles.findIndex((r) => r.kind === "id");
+  const anyExcluded = rows.excluded.size > 0;
+  // A million-row table must not allocate per cell: spans and texts are made only where the contract
+  // (responseTexts, responseSpans, ids, rowSpans) or a diagnostic needs them.
+  const cellSpan = (cell: number): Span => ({ start: rows.cellStart[cell]!, end: rows.cellEnd[cell]! });
 
   for (let r = 0; r < count; r++) {
     const rowSpan = { start: rows.rowStart[r]!, end: rows.rowEnd[r]! };
     rowSpans[r] = rowSpan;
-    if (rows.excluded.has(r)) excluded[r] = 1;
+    const mark = anyExcluded ? rows.excluded.get(r) : undefined;
+    if (mark) excluded[r] = 1;
     const first = rows.cellOffset[r]!;
     const n = rows.cellOffset[r + 1]! - first;
     const pipe = rows.pipeCell[r]!;
     // Map each cell of the row to a header column. With a '|' the two sides are matched separately, so a
     // missing cell on the left does not shift the responses; without one, cells are matched by position.
-    const columnOfCell = new Int32Array(n).fill(-1);
-    let shapeOk: boolean;
-    if (pipe >= 0 && table.headerHasPipe) {
+    const split = pipe >= 0 && table.headerHasPipe;
+    if (split) {
       const left = pipe;
       const right = n - pipe;
-      shapeOk = left === leftCount && right === rightCount;
-      for (let k = 0; k < Math.min(left, leftCount); k++) columnOfCell[k] = k;
-      for (let k = 0; k < Math.min(right, rightCount); k++) columnOfCell[pipe + k] = leftCount + k;
-      if (!shapeOk) {
+      if (left !== leftCount || right !== rightCount) {
         const parts: string[] = [];
         if (left !== leftCount) parts.push(`${left} cell${left === 1 ? "" : "s"} before '|' where the header has ${leftCount}`);
         if (right !== rightCount) parts.push(`${right} after '|' where the header has ${rightCount}`);
         sink.add(diagnostic("column-count", rowSpan, `This row has ${parts.join(" and ")}: add or remove cells so each column has one value (use ? for a value not measured yet).`));
       }
-    } else {
-      shapeOk = n === table.columns.length;
-      for (let k = 0; k < Math.min(n, table.columns.length); k++) columnOfCell[k] = k;
-      if (!shapeOk) {
-        sink.add(
-          diagnostic("column-count", rowSpan, `This row has ${n} cell${n === 1 ? "" : "s"} where the header has ${table.columns.length} columns: add or remove cells so each column has one value.`),
-        );
-      }
+    } else if (n !== columnCount) {
+      sink.add(
+        diagnostic("column-count", rowSpan, `This row has ${n} cell${n === 1 ? "" : "s"} where the header has ${columnCount} columns: add or remove cells so each column has one value.`),
+      );
     }
 
-    ids[r] = String(r + 1);
+    let idSeen = false;
+    let pendingInRow = false;
     for (let k = 0; k < n; k++) {
-      const column = columnOfCell[k]!;
+      let column: number;
+      if (split) column = k < pipe ? (k < leftCount ? k : -1) : k - pipe < rightCount ? leftCount + (k - pipe) : -1;
+      else column = k < columnCount ? k : -1;
       if (column < 0) continue;
       const role = roles[column]!;
       const cell = first + k;
-      const span = { start: rows.cellStart[cell]!, end: rows.cellEnd[cell]! };
       switch (role.kind) {
         case "id": {
           const id = cellText(source, rows, cell);
           ids[r] = id;
-          const prior = firstIdRow.get(id);
-          if (prior !== undefined) {
+          idSeen = true;
+          const prior = firstIdRow.firstRowOf(id, r, ids);
+          if (prior >= 0) {
             sink.add(
-              diagnostic("duplicate-run", span, `Run id '${id}' is already used by an earlier row: give this run a new id.`, [
+              diagnostic("duplicate-run", cellSpan(cell), `Run id '${id}' is already used by an earlier row: give this run a new id.`, [
                 { span: rowSpans[prior]!, message: `first run with id '${id}'` },
               ]),
             );
-          } else firstIdRow.set(id, r);
+          }
           break;
         }
         case "factor": {
-          const text = cellText(source, rows, cell);
-          const idx = levelIndex[role.index]!.get(text);
-          if (idx === undefined) {
+          const idx = findLevel(source, rows, cell, levelNames[role.index]!, levelIndex[role.index]!);
+          if (idx < 0) {
+            const text = cellText(source, rows, cell);
             const f = factors[role.index]!;
+            const span = cellSpan(cell);
             sink.add(text === "?" ? diagnostic("unknown-level", span, `A factor setting cannot be pending: write the level of '${f.name}' this run uses${listOf(f.levels.map((l) => l.name))}.`) : unknownLevel(text, span, f.name, f.levels));
           } else levels[role.index]![r] = idx;
           break;
         }
         case "covariate": {
           const text = cellText(source, rows, cell);
-          const status = valueStatus(text, span, `covariate '${covariates[role.index]!.name}'`, sink, true);
+          const status = valueStatus(text, rows, cell, `covariate '${covariates[role.index]!.name}'`, sink, true);
           covariateStatus[role.index]![r] = status;
           if (status === ValueStatus.Measured) covariateTexts[role.index]![r] = text;
           break;
         }
         case "response": {
           const text = cellText(source, rows, cell);
-          const status = valueStatus(text, span, `response '${responses[role.index]!.name}'`, sink, false);
+          const status = valueStatus(text, rows, cell, `response '${responses[role.index]!.name}'`, sink, false);
           responseStatus[role.index]![r] = status;
-          responseSpans[role.index]![r] = span;
+          responseSpans[role.index]![r] = cellSpan(cell);
           if (status === ValueStatus.Measured) responseTexts[role.index]![r] = text;
+          else if (status === ValueStatus.Pending) pendingInRow = true;
           break;
         }
         default:
@@ -501,10 +505,64 @@ function readRuns(
       }
     }
 
-    if (idColumn >= 0 && columnOfCell.indexOf(idColumn) < 0) ids[r] = String(r + 1);
-    reportPendingAndExcluded(r, runs, responses, rows.excluded.get(r), idColumn >= 0, sink);
+    if (!idSeen) ids[r] = String(r + 1);
+    if (mark || pendingInRow) reportPendingAndExcluded(r, runs, responses, mark, idColumn >= 0, sink);
   }
   return runs;
+}
+
+/**
+ * Finds the first row that used a run id, for duplicate-id diagnostics. An open-addressing hash table of
+ * row numbers (Knuth 1998, TAOCP vol. 3, section 6.4, linear probing) sized once for the table: a
+ * `Map<string, number>` of a million ids costs several times the time and memory in rehashing and entries.
+ */
+class IdTable {
+  private readonly slots: Int32Array;
+  private readonly mask: number;
+
+  constructor(rows: number) {
+    let size = 16;
+    while (size < rows * 2) size *= 2;
+    this.slots = new Int32Array(size);
+    this.mask = size - 1;
+  }
+
+  /** The first earlier row whose id (in `ids`) equals `id`, or -1 after recording row `r` as its first. */
+  firstRowOf(id: string, r: number, ids: readonly string[]): number {
+    // FNV-1a over the UTF-16 code units (Fowler, Noll & Vo).
+    let h = 0x811c9dc5;
+    for (let i = 0; i < id.length; i++) h = Math.imul(h ^ id.charCodeAt(i), 0x01000193);
+    let slot = h & this.mask;
+    for (;;) {
+      const stored = this.slots[slot]!;
+      if (stored === 0) {
+        this.slots[slot] = r + 1;
+        return -1;
+      }
+      if (ids[stored - 1] === id) return stored - 1;
+      slot = (slot + 1) & this.mask;
+    }
+  }
+}
+
+/** Largest number of levels looked up by comparing characters in place (beyond it, a map of names). */
+const SCAN_LEVELS = 16;
+
+/**
+ * The level index of a factor cell, or -1. An unquoted cell is compared in place with each level name
+ * (no substring per cell); a quoted cell, or a factor with many levels, is looked up by its text.
+ */
+function findLevel(source: string, rows: RunRows, cell: number, names: readonly string[], index: ReadonlyMap<string, number>): number {
+  if (rows.cellFlags[cell] === 0 && names.length <= SCAN_LEVELS) {
+    const start = rows.cellStart[cell]!;
+    const length = rows.cellEnd[cell]! - start;
+    for (let i = 0; i < names.length; i++) {
+      const name = names[i]!;
+      if (name.length === length && source.startsWith(name, start)) return i;
+    }
+    return -1;
+  }
+  return index.get(cellText(source, rows, cell)) ?? -1;
 }
 
 function mapColumns(
@@ -581,22 +639,23 @@ function mapColumns(
 /** Reused by every cell check so validating a million values allocates nothing per value. */
 const scratchScan = emptyScan();
 
-function valueStatus(text: string, span: Span, what: string, sink: DiagnosticSink, isCovariate: boolean): ValueStatus {
+function valueStatus(text: string, rows: RunRows, cell: number, what: string, sink: DiagnosticSink, isCovariate: boolean): ValueStatus {
+  const span = (): Span => ({ start: rows.cellStart[cell]!, end: rows.cellEnd[cell]! });
   if (text === "?") {
     if (isCovariate) {
-      sink.add(diagnostic("not-a-number", span, `The ${what} is not recorded for this run: write the measured value.`));
+      sink.add(diagnostic("not-a-number", span(), `The ${what} is not recorded for this run: write the measured value.`));
       return ValueStatus.Invalid;
     }
     return ValueStatus.Pending;
   }
   const scan = scanDecimal(text, scratchScan);
   if (typeof scan === "string") {
-    sink.add(diagnostic("not-a-number", span, `'${text}' is not a number for the ${what}: write a decimal number such as 12.5, or ? if it is not measured yet.`));
+    sink.add(diagnostic("not-a-number", span(), `'${text}' is not a number for the ${what}: write a decimal number such as 12.5, or ? if it is not measured yet.`));
     return ValueStatus.Invalid;
   }
   const outOfRange = rangeReason(text, scan, scanValue(text, scan));
   if (outOfRange) {
-    sink.add(diagnostic("value-out-of-range", span, `The ${what} cannot be represented: ${outOfRange}. Check the value or change its unit.`));
+    sink.add(diagnostic("value-out-of-range", span(), `The ${what} cannot be represented: ${outOfRange}. Check the value or change its unit.`));
     return ValueStatus.Invalid;
   }
   return ValueStatus.Measured;

@@ -69,9 +69,9 @@ describe("linear model: degenerate cases", () => {
     assert.equal(r.anova[0]!.p, null);
     assertClose(r.rSquared, 1, "R2");
     assert.ok(r.notes.some((n) => n.code === "zero-residual-variance"));
-    // Same with unequal groups (general QR path, residuals of order 1e-16 rather than exactly 0).
+    // Same with unequal groups (QR on the weighted cell-level design, residuals of order 1e-16 rather than exactly 0).
     const qr = ok(fitLinearModel({ ...input, y: Float64Array.from([0.1, 0.1, 0.3, 0.3, 0.1, 0.3, 0.3]), factors: [factor("bath", 2, [0, 0, 1, 1, 0, 1, 1])] }));
-    assert.equal(qr.method, "qr");
+    assert.equal(qr.method, "cells");
     assert.equal(qr.anova[0]!.f, null);
     assert.ok(qr.notes.some((n) => n.code === "zero-residual-variance"));
   });

@@ -1,6 +1,7 @@
 /**
  * Entry point of the fixed-effects linear model: validates the input, picks the computation path
- * (balanced cell sums when valid, general Householder QR otherwise) and assembles the ANOVA table,
+ * (balanced cell sums when valid; else, for factor-only models, QR on the weighted cell-level design from
+ * cell counts, means and within-cell sums of squares; general Householder QR otherwise) and assembles the ANOVA table,
  * residual diagnostics, effect sizes and covariance-analysis quantities.
  *
  * Degenerate situations and what is returned:
@@ -20,6 +21,7 @@
 import { fUpperTail } from "../distributions/f-distribution.js";
 import { balancedLayout, balancedModelCore } from "./balanced-fast-path.js";
 import { caseStatistics } from "./case-statistics.js";
+import { cellModelCore } from "./cell-path.js";
 import { mean } from "./design-matrix.js";
 import { termEffectSize } from "./effect-sizes.js";
 import { termSource, type ModelCore } from "./model-core.js";
@@ -42,7 +44,7 @@ export function fitLinearModel(input: LinearModelInput): LinearModelResult | Mod
     return { ok: false, code: "zero-variance", reason: `All ${n} observations have the same value; there is no variation to analyse.` };
   }
   const layout = balancedLayout(input);
-  const core = layout ? balancedModelCore(input, layout) : qrModelCore(input);
+  const core = layout ? balancedModelCore(input, layout) : (cellModelCore(input) ?? qrModelCore(input));
   return assembleResult(input, core);
 }
 

@@ -25,7 +25,7 @@ export interface CoreSlopeHomogeneity {
 
 /** Output of a computation path. Term arrays follow `input.terms`. */
 export interface ModelCore {
-  readonly method: "balanced" | "qr";
+  readonly method: "balanced" | "cells" | "qr";
   readonly rank: number;
   readonly termSs: readonly number[];
   readonly termDf: readonly number[];

@@ -13,7 +13,7 @@
  */
 
 import { adjustedMeans, covariateSlopes, slopeHomogeneityTests } from "./ancova.js";
-import { buildDesignMatrix, nominalDf } from "./design-matrix.js";
+import { buildDesignMatrix, nominalDf, type DesignMatrix } from "./design-matrix.js";
 import { termContains, termSource, type ModelCore } from "./model-core.js";
 import { blockSumOfSquares } from "./nested-fits.js";
 import { hatDiagonal, householderQr, leastSquares } from "./qr.js";
@@ -21,9 +21,17 @@ import type { AliasedTerm, LinearModelInput, ModelNote } from "./types.js";
 
 /** Computes the model core by QR least squares; valid for any design, balanced or not. */
 export function qrModelCore(input: LinearModelInput): ModelCore {
-  const { y } = input;
-  const n = y.length;
-  const design = buildDesignMatrix(input);
+  return qrCoreOf(input, buildDesignMatrix(input), input.y);
+}
+
+/**
+ * The QR computation on a given design matrix and response vector: `input` supplies only the terms,
+ * factor names and level counts and the SS type. `qrModelCore` passes the full design and `input.y`; the
+ * cell path (`cell-path.ts`) passes the weighted cell-level design and weighted cell means, which have
+ * the same cross-products and therefore the same fit. Per-row arrays of the result follow `design`'s rows.
+ */
+export function qrCoreOf(input: LinearModelInput, design: DesignMatrix, y: Float64Array): ModelCore {
+  const n = design.n;
   const qr = householderQr(design.x, n, design.p);
   const fit = leastSquares(qr, y);
   const notes: ModelNote[] = [];

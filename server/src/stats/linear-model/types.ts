@@ -126,8 +126,11 @@ export interface ModelNote {
 export interface LinearModelResult {
   readonly ok: true;
   readonly ssType: SsType;
-  /** "balanced" when the cell-sum fast path computed the result, "qr" for the general least-squares path. */
-  readonly method: "balanced" | "qr";
+  /**
+   * "balanced" when the cell-sum fast path computed the result, "cells" when the QR ran on the weighted
+   * cell-level design (factor-only models, see cell-path.ts), "qr" for the general least-squares path.
+   */
+  readonly method: "balanced" | "cells" | "qr";
   readonly n: number;
   /** Rank of the full design matrix (intercept included). */
   readonly rank: number;

@@ -1,0 +1,181 @@
+/**
+ * The cell computation path: least squares from cell sufficient statistics, for models whose columns are
+ * constant within cells (factor terms only, no covariate in any term), balanced or not, empty cells
+ * allowed.
+ *
+ * Why it is exact: when every row of X in cell c equals the cell's row x_c, the residual sum of squares of
+ * any coefficient vector b splits as
+ *     sum_i (y_i - x_i b)^2 = sum_c n_c (ybar_c - x_c b)^2 + sum_c W_c,
+ * with n_c, ybar_c and W_c the count, mean and within-cell sum of squares of cell c (the decomposition of
+ * Searle 1987, Linear Models for Unbalanced Data, section 2.3, which is why cell means and counts are
+ * sufficient for the fixed-effects model). So b minimises the weighted cell-level problem with rows
+ * sqrt(n_c) x_c and responses sqrt(n_c) ybar_c, whose cross-product matrix X^T X and vector X^T y are the
+ * full problem's. Every nested fit differs from the full one only in its columns, so every extra sum of
+ * squares (Types I, II, III), the rank, the aliasing decisions (column norms and projections are the
+ * same), R up to row signs (hence standard errors), coefficients and adjusted means are the same as the
+ * general QR path's; residual sums of squares gain the constant sum_c W_c. The per-observation leverage
+ * is x_c^T (X^T X)^{-1} x_c, the weighted cell leverage divided by n_c (Hoaglin & Welsch 1978, "The hat
+ * matrix in regression and ANOVA", The American Statistician 32, 17-22).
+ *
+ * Cost: O(n) passes over the observations plus the QR of an m x p matrix (m non-empty cells) per nested
+ * fit, instead of an n x p QR per nested fit: a million runs in a 4 x 3 design cost three linear passes.
+ *
+ * Accuracy: cell means use a compensated first pass (Neumaier 1974) and a correcting second pass, and
+ * W_c the corrected two-pass formula (Chan, Golub & LeVeque 1983), so neither grows its rounding error with
+ * the cell size.
+ */
+
+import { buildDesignMatrix, NeumaierSum } from "./design-matrix.js";
+import type { ModelCore } from "./model-core.js";
+import { qrCoreOf } from "./qr-path.js";
+import type { LinearModelInput, ModelFactor } from "./types.js";
+
+/** The non-empty cells of the factors a model uses, and each observation's cell. */
+export interface CellLayout {
+  /** Cell (0..cellCount-1, in order of first appearance) of each observation. */
+  readonly cellOfRun: Int32Array;
+  /** Number of non-empty cells. */
+  readonly cellCount: number;
+  /** Per input factor: the factor's level code in each cell (all 0 for a factor no term uses). */
+  readonly cellCodes: readonly Int32Array[];
+}
+
+/** Largest dense key space (product of level counts) indexed by an array rather than a map. */
+const DENSE_KEYS = 1 << 22;
+
+/**
+ * Returns the cell layout when the cell path applies: no term has a covariate and there are fewer
+ * non-empty cells than observations (otherwise the general path costs the same). Null otherwise.
+ */
+export function cellLayout(input: LinearModelInput): CellLayout | null {
+  const n = input.y.length;
+  if (input.terms.some((t) => t.covariates.length > 0)) return null;
+  const used = [...new Set(input.terms.flatMap((t) => t.factors))].sort((a, b) => a - b);
+  let keySpace = 1;
+  for (const f of used) keySpace *= input.factors[f]!.levelCount;
+  if (!Number.isSafeInteger(keySpace)) return null;
+  const codes = used.map((f) => input.factors[f]!.codes);
+  const radix = used.map((f) => input.factors[f]!.levelCount);
+  const cellOfRun = new Int32Array(n);
+  const firstRun: number[] = [];
+  const dense = keySpace <= DENSE_KEYS ? new Int32Array(keySpace).fill(-1) : null;
+  const sparse = dense ? null : new Map<number, number>();
+  for (let i = 0; i < n; i++) {
+    let key = 0;
+    for (let q = 0; q < codes.length; q++) key = key * radix[q]! + codes[q]![i]!;
+    let cell = dense ? dense[key]! : (sparse!.get(key) ?? -1);
+    if (cell < 0) {
+      cell = firstRun.length;
+      firstRun.push(i);
+      if (firstRun.length >= n) return null;
+      if (dense) dense[key] = cell;
+      else sparse!.set(key, cell);
+    }
+    cellOfRun[i] = cell;
+  }
+  const cellCount = firstRun.length;
+  const cellCodes = input.factors.map((f, k) => {
+    const out = new Int32Array(cellCount);
+    if (used.includes(k)) for (let c = 0; c < cellCount; c++) out[c] = f.codes[firstRun[c]!]!;
+    return out;
+  });
+  return { cellOfRun, cellCount, cellCodes };
+}
+
+/** Count, mean and within-cell sum of squares of every cell. */
+export interface CellStatistics {
+  readonly counts: Float64Array;
+  readonly means: Float64Array;
+  /** Sum over cells of the within-cell sums of squares. */
+  readonly withinSs: number;
+}
+
+/** Computes the cell statistics of `y` for `layout` (two passes, see the module comment). */
+export function cellStatistics(y: Float64Array, layout: CellLayout): CellStatistics {
+  const { cellOfRun, cellCount } = layout;
+  const n = y.length;
+  const counts = new Float64Array(cellCount);
+  const sums = new Float64Array(cellCount);
+  const compensation = new Float64Array(cellCount);
+  for (let i = 0; i < n; i++) {
+    const c = cellOfRun[i]!;
+    const v = y[i]!;
+    const s = sums[c]!;
+    const t = s + v;
+    compensation[c]! += Math.abs(s) >= Math.abs(v) ? s - t + v : v - t + s;
+    sums[c] = t;
+    counts[c]!++;
+  }
+  const means = new Float64Array(cellCount);
+  for (let c = 0; c < cellCount; c++) means[c] = (sums[c]! + compensation[c]!) / counts[c]!;
+  const deviation = sums.fill(0);
+  const squares = compensation.fill(0);
+  for (let i = 0; i < n; i++) {
+    const c = cellOfRun[i]!;
+    const d = y[i]! - means[c]!;
+    deviation[c]! += d;
+    squares[c]! += d * d;
+  }
+  const within = new NeumaierSum();
+  for (let c = 0; c < cellCount; c++) {
+    const d = deviation[c]!;
+    means[c]! += d / counts[c]!;
+    within.add(Math.max(0, squares[c]! - (d * d) / counts[c]!));
+  }
+  return { counts, means, withinSs: within.value() };
+}
+
+/**
+ * Computes the model core from cell statistics, or returns null when the cell path does not apply (see
+ * `cellLayout`); the caller then uses the general QR path. Agrees with `qrModelCore` to rounding.
+ */
+export function cellModelCore(input: LinearModelInput): ModelCore | null {
+  const layout = cellLayout(input);
+  if (!layout) return null;
+  const { y } = input;
+  const n = y.length;
+  const m = layout.cellCount;
+  const { counts, means, withinSs } = cellStatistics(y, layout);
+
+  // The weighted cell-level problem: rows sqrt(n_c) x_c, responses sqrt(n_c) ybar_c.
+  const weights = new Float64Array(m);
+  const z = new Float64Array(m);
+  for (let c = 0; c < m; c++) {
+    weights[c] = Math.sqrt(counts[c]!);
+    z[c] = weights[c]! * means[c]!;
+  }
+  const cellFactors: ModelFactor[] = input.factors.map((f, k) => ({ name: f.name, levelCount: f.levelCount, codes: layout.cellCodes[k]! }));
+  const design = buildDesignMatrix({ y: z, factors: cellFactors, covariates: [], terms: input.terms, ssType: input.ssType });
+  for (let j = 0; j < design.p; j++) {
+    const col = j * m;
+    for (let c = 0; c < m; c++) design.x[col + c]! *= weights[c]!;
+  }
+  const core = qrCoreOf(input, design, z);
+
+  // Back to observations: fitted value of the cell, residual from it, leverage shared by the cell's runs.
+  const cellFitted = new Float64Array(m);
+  const cellLeverage = new Float64Array(m);
+  for (let c = 0; c < m; c++) {
+    cellFitted[c] = core.fitted[c]! / weights[c]!;
+    cellLeverage[c] = core.leverage[c]! / counts[c]!;
+  }
+  const fitted = new Float64Array(n);
+  const residuals = new Float64Array(n);
+  const leverage = new Float64Array(n);
+  const { cellOfRun } = layout;
+  for (let i = 0; i < n; i++) {
+    const c = cellOfRun[i]!;
+    const f = cellFitted[c]!;
+    fitted[i] = f;
+    residuals[i] = y[i]! - f;
+    leverage[i] = cellLeverage[c]!;
+  }
+  return {
+    ...core,
+    method: "cells",
+    residualSs: core.residualSs + withinSs,
+    fitted,
+    residuals,
+    leverage,
+  };
+}
