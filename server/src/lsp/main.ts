@@ -4,7 +4,8 @@
  */
 import { createConnection, ProposedFeatures } from "vscode-languageserver/node";
 import { createServer } from "./server.js";
+import { registerTrialbookRequests } from "./trialbook-requests.js";
 
 const connection = createConnection(ProposedFeatures.all);
-createServer(connection);
+registerTrialbookRequests(connection, createServer(connection));
 connection.listen();
