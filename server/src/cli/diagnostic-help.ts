@@ -105,6 +105,10 @@ const HELP: Readonly<Record<string, DiagnosticHelp>> = {
     fullDescription: "A number is too large or too small to be represented as a double-precision value, so it cannot be analysed.",
     help: "Rescale the values (change the unit) so they fit.",
   },
+  "systematic-order": {
+    fullDescription: "The runs were made in an order tied to the levels of a treatment factor, so a drift over time (tool wear, warm-up, a change of operator) cannot be told apart from the factor's effect.",
+    help: "Run the remaining runs in a randomized order (`trialbook plan` writes a seeded random run sheet), or block on time.",
+  },
 };
 
 /** The help entry for a code, built from the rule's summary when no entry is written for it. */
