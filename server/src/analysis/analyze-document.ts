@@ -8,6 +8,9 @@ import type { DocumentAnalysis, ResponseAnalysis } from "./results.js";
 import { comparisonsExtension } from "./extensions/comparisons.js";
 import { modelChecksExtension } from "./extensions/model-checks.js";
 import { powerExtension } from "./extensions/power.js";
+import { repeatedMeasuresExtension } from "./extensions/repeated-measures.js";
+import { mixedModelExtension } from "./extensions/mixed-model.js";
+import { twoLevelExtension } from "./extensions/two-level.js";
 
 /**
  * An analysis that builds on a response's fit and adds named keys to its result (see results.ts), with
@@ -20,6 +23,9 @@ const RESPONSE_EXTENSIONS: readonly ResponseExtension[] = [
   comparisonsExtension,
   modelChecksExtension,
   powerExtension,
+  repeatedMeasuresExtension,
+  mixedModelExtension,
+  twoLevelExtension,
 ];
 
 /**

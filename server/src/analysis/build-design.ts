@@ -13,6 +13,8 @@ import type {
   TermVariable,
 } from "./design.js";
 import { ValueStatus } from "./design.js";
+import { definingRelation } from "../stats/two-level/aliases.js";
+import { wordOf } from "../stats/two-level/words.js";
 import { type Diagnostic, DiagnosticSink, diagnostic } from "./diagnostics.js";
 import { resolvePairwise } from "./resolve-pairwise.js";
 
@@ -46,8 +48,10 @@ export function buildDesign(file: TrialFile, defaults: AnalysisSettings = {}, ov
   const covariates = resolveCovariates(file, factors, sink);
   const responses = resolveResponses(file, factors, covariates, sink);
   const settings = resolveSettings(file.plan?.settings ?? [], defaults, overrides, sink);
-  const { terms, explicit } = resolveTerms(file, factors, covariates, sink);
   const runs = readRuns(file, factors, covariates, responses, sink);
+  const fractions = resolveFractions(file, factors, sink);
+  const { terms, explicit } = resolveTerms(file, factors, covariates, sink, { runs, fractions });
+  const centrePoints = (file.plan?.settings ?? []).find((s) => s.kind === "centre-points");
 
   const cellFactors = factors.flatMap((f, i) => (f.role !== "subject" && f.within === undefined ? [i] : []));
   const hasFraction = (file.plan?.settings ?? []).some((s) => s.kind === "fraction");
@@ -62,10 +66,15 @@ export function buildDesign(file: TrialFile, defaults: AnalysisSettings = {}, ov
     runs,
     cellFactors,
     hasFraction,
+    ...(fractions.length > 0 ? { fractions } : {}),
+    ...(centrePoints && centrePoints.kind === "centre-points" && centrePoints.value && Number.isSafeInteger(centrePoints.value.value) && centrePoints.value.value >= 0
+      ? { centrePoints: centrePoints.value.value }
+      : {}),
     // Comparisons feature: `plan pairwise` terms and the spans of plan settings (resolve-pairwise.ts).
     ...resolvePairwise(file, factors, sink),
   };
   if (runs.count > 0) checkCells(design, file, sink);
+  if (runs.count > 0) checkSubjectConditions(design, sink);
   return { design, diagnostics: sink.finish() };
 }
 
@@ -297,24 +306,141 @@ function termName(variables: readonly TermVariable[], factors: readonly DesignFa
   return variables.map((v) => (v.kind === "factor" ? factors[v.index]!.name : covariates[v.index]!.name)).join(" x ");
 }
 
+/** What the default model may depend on besides the declarations (docs/designs.md). */
+interface DefaultModelContext {
+  readonly runs: DesignRuns;
+  readonly fractions: readonly { readonly generated: number; readonly product: readonly number[] }[];
+}
+
 /**
- * The default model (design brief §3): fixed factors fully crossed, other factors and covariates
- * additive. Covariates and blocks come first so that sequential (Type I) sums of squares adjust the
- * treatments for them, the usual order for blocked and covariance analyses.
+ * The default model (design brief §3): fixed factors fully crossed, blocks and covariates additive.
+ * Covariates and blocks come first so that sequential (Type I) sums of squares adjust the treatments for
+ * them, the usual order for blocked and covariance analyses. Designs beyond complete randomization
+ * (docs/designs.md):
+ * - random factors and nested factors (`within`) are crossed with the fixed factors like fixed ones; for a
+ *   nested factor the crossed terms span the same space as the nested term, so fitted values and residuals
+ *   are right, and the mixed-model analysis replaces the table with the nested partition. When no cell of
+ *   that crossing holds two runs, the highest-order term is left to be the residual;
+ * - a subject factor stays additive unless some fixed factor is constant within every subject (a
+ *   between-subject factor, which a subject main effect would alias): then it is left out of the fixed-effects
+ *   model and the repeated-measures analysis supplies the strata;
+ * - with `plan fraction`, only the first term of each alias set is kept, and terms aliased with the
+ *   identity are dropped, so the fit is not rank deficient by construction.
  */
-function defaultTerms(factors: readonly DesignFactor[], covariates: readonly DesignCovariate[]): DesignTerm[] {
-  const terms: DesignTerm[] = [];
+function defaultTerms(factors: readonly DesignFactor[], covariates: readonly DesignCovariate[], context?: DefaultModelContext): DesignTerm[] {
+  let terms: DesignTerm[] = [];
   const add = (variables: TermVariable[]) => terms.push({ name: termName(variables, factors, covariates), variables });
   covariates.forEach((_, index) => add([{ kind: "covariate", index }]));
+  const subjectBetween = context ? hasBetweenSubjectFactor(factors, context.runs) : false;
   factors.forEach((f, index) => {
-    if (f.role !== "fixed") add([{ kind: "factor", index }]);
+    if (f.role === "block" || (f.role === "subject" && !subjectBetween)) add([{ kind: "factor", index }]);
   });
-  const fixed = factors.flatMap((f, i) => (f.role === "fixed" ? [i] : []));
-  // All non-empty subsets of the fixed factors, by size, then in declaration order.
-  for (let size = 1; size <= fixed.length; size++) {
-    for (const subset of combinations(fixed, size)) add(subset.map((index) => ({ kind: "factor", index })));
+  const crossed = factors.flatMap((f, i) => (f.role === "fixed" || f.role === "random" ? [i] : []));
+  const special = crossed.some((i) => factors[i]!.role === "random" || factors[i]!.within !== undefined);
+  // All non-empty subsets of the crossed factors, by size, then in declaration order.
+  for (let size = 1; size <= crossed.length; size++) {
+    for (const subset of combinations(crossed, size)) add(subset.map((index) => ({ kind: "factor", index })));
   }
+  if (special && crossed.length > 1 && context && maxRunsPerCell(crossed, factors, context.runs) <= 1) terms.pop();
+  if (context && context.fractions.length > 0) terms = keepOnePerAliasSet(terms, factors, context.fractions);
   return terms;
+}
+
+/** True when a fixed factor has one level within every subject (it varies between subjects only). */
+function hasBetweenSubjectFactor(factors: readonly DesignFactor[], runs: DesignRuns): boolean {
+  const subject = factors.findIndex((f) => f.role === "subject");
+  if (subject < 0 || runs.count === 0) return false;
+  const keyOf = subjectKeys(factors, subject, runs);
+  return factors.some((f, i) => {
+    if (f.role !== "fixed" || i === subject) return false;
+    const seen = new Map<string, number>();
+    let varies = false;
+    let levels = new Set<number>();
+    for (let r = 0; r < runs.count; r++) {
+      const level = runs.levels[i]![r]!;
+      if (level < 0 || keyOf[r] === "") continue;
+      levels.add(level);
+      const prior = seen.get(keyOf[r]!);
+      if (prior === undefined) seen.set(keyOf[r]!, level);
+      else if (prior !== level) varies = true;
+    }
+    return !varies && levels.size > 1;
+  });
+}
+
+/** Identity of the subject of each run: its level with the levels of the factors it is nested in ("" if unknown). */
+export function subjectKeys(factors: readonly DesignFactor[], subject: number, runs: DesignRuns): string[] {
+  const chain: number[] = [];
+  let cur: number | undefined = subject;
+  while (cur !== undefined && !chain.includes(cur)) {
+    chain.push(cur);
+    cur = factors[cur]!.within;
+  }
+  const keys = new Array<string>(runs.count);
+  for (let r = 0; r < runs.count; r++) {
+    const parts = chain.map((f) => runs.levels[f]![r]!);
+    keys[r] = parts.some((l) => l < 0) ? "" : parts.join("/");
+  }
+  return keys;
+}
+
+function maxRunsPerCell(crossed: readonly number[], factors: readonly DesignFactor[], runs: DesignRuns): number {
+  const counts = new Map<string, number>();
+  let max = 0;
+  for (let r = 0; r < runs.count; r++) {
+    if (runs.excluded[r]) continue;
+    const key = crossed.map((f) => runs.levels[f]![r]!).join(",");
+    const c = (counts.get(key) ?? 0) + 1;
+    counts.set(key, c);
+    max = Math.max(max, c);
+  }
+  return max;
+}
+
+function keepOnePerAliasSet(terms: DesignTerm[], factors: readonly DesignFactor[], fractions: DefaultModelContext["fractions"]): DesignTerm[] {
+  const relation = definingRelation(fractions, factors.length);
+  if (!relation.ok) return terms;
+  const seen = new Set<number>();
+  return terms.filter((t) => {
+    if (t.variables.some((v) => v.kind !== "factor" || factors[v.index]!.role !== "fixed")) return true;
+    const word = wordOf(t.variables.map((v) => v.index));
+    let key = word;
+    for (const w of relation.words) key = Math.min(key, (word ^ w) >>> 0);
+    if (key === 0 || seen.has(key)) return false;
+    seen.add(key);
+    return true;
+  });
+}
+
+/** `plan fraction NAME = A x B x ...` resolved to factor indices; unknown names are reported. */
+function resolveFractions(file: TrialFile, factors: readonly DesignFactor[], sink: DiagnosticSink): { generated: number; product: number[]; span: Span }[] {
+  const out: { generated: number; product: number[]; span: Span }[] = [];
+  for (const s of file.plan?.settings ?? []) {
+    if (s.kind !== "fraction" || !s.generated || !s.generator) continue;
+    const names = [s.generated, ...s.generator.names];
+    const indices = names.map((n) => factors.findIndex((f) => f.name === n.text));
+    let ok = true;
+    names.forEach((n, i) => {
+      if (indices[i]! < 0) {
+        ok = false;
+        sink.add(diagnostic("unknown-factor", n.span, `'${n.text}' in the fraction generator is not a declared factor${listOf(factors.map((f) => f.name))}.`));
+      }
+    });
+    if (!ok) continue;
+    if (indices.slice(1).includes(indices[0]!)) {
+      sink.add(diagnostic("invalid-setting", s.span, `'${s.generated.text}' cannot appear in its own generator.`));
+      continue;
+    }
+    out.push({ generated: indices[0]!, product: indices.slice(1), span: s.span });
+  }
+  if (out.length > 0) {
+    const relation = definingRelation(out, factors.length);
+    if (!relation.ok) {
+      sink.add(diagnostic("invalid-setting", out[0]!.span, `The fraction generators do not define a regular fraction: ${relation.reason}.`));
+      return [];
+    }
+  }
+  return out;
 }
 
 function combinations(items: readonly number[], size: number): number[][] {
@@ -331,10 +457,11 @@ function resolveTerms(
   factors: readonly DesignFactor[],
   covariates: readonly DesignCovariate[],
   sink: DiagnosticSink,
+  context?: DefaultModelContext,
 ): { terms: DesignTerm[]; explicit: boolean } {
   const modelSetting = file.plan?.settings.find((s) => s.kind === "model");
   if (!modelSetting || modelSetting.kind !== "model" || modelSetting.terms.length === 0) {
-    return { terms: defaultTerms(factors, covariates), explicit: false };
+    return { terms: defaultTerms(factors, covariates, context), explicit: false };
   }
   const terms: DesignTerm[] = [];
   const seen = new Set<string>();
@@ -726,7 +853,7 @@ function checkCells(design: Design, file: TrialFile, sink: DiagnosticSink): void
   const runsKeyword = file.runs!.keywordSpan;
   for (let c = 0; c < cellCount; c++) {
     if (planned[c] === 0) {
-      if (design.hasFraction) continue;
+      if (design.hasFraction || design.centrePoints !== undefined || isLatinSquare(design)) continue;
       const interaction = cellFactors.length > 1 ? ` The ${cellFactors.map((f) => design.factors[f]!.name).join(" x ")} interaction cannot be fully estimated.` : "";
       sink.add(diagnostic("empty-cell", runsKeyword, `No run has ${describeCell(design, c)}.${interaction} Add runs for this combination (use ? for values not measured yet).`));
     } else if (replicates !== undefined && planned[c]! < replicates) {
@@ -771,6 +898,103 @@ function checkCells(design: Design, file: TrialFile, sink: DiagnosticSink): void
       );
     }
   });
+}
+
+/**
+ * A Latin square (docs/designs.md): two block factors (rows and columns) and one fixed factor, all with the
+ * same number n of levels, and n² runs (Montgomery 2017, §4.2). Its n³ - n² unused level combinations are
+ * by design, not empty cells.
+ */
+export function isLatinSquare(design: Design): boolean {
+  const blocks = design.factors.filter((f) => f.role === "block");
+  const fixed = design.factors.filter((f) => f.role === "fixed");
+  if (blocks.length !== 2 || fixed.length !== 1 || design.factors.length !== 3) return false;
+  const n = fixed[0]!.levels.length;
+  if (n < 2 || blocks.some((b) => b.levels.length !== n)) return false;
+  const [rows, cols] = design.factors.flatMap((f, i) => (f.role === "block" ? [i] : []));
+  const treatment = design.factors.findIndex((f) => f.role === "fixed");
+  const seenRowCol = new Set<number>();
+  const seenRowTrt = new Set<number>();
+  const seenColTrt = new Set<number>();
+  let count = 0;
+  for (let r = 0; r < design.runs.count; r++) {
+    if (design.runs.excluded[r]) continue;
+    const a = design.runs.levels[rows!]![r]!;
+    const b = design.runs.levels[cols!]![r]!;
+    const t = design.runs.levels[treatment]![r]!;
+    if (a < 0 || b < 0 || t < 0) return false;
+    count++;
+    for (const [set, key] of [[seenRowCol, a * n + b], [seenRowTrt, a * n + t], [seenColTrt, b * n + t]] as const) {
+      if (set.has(key)) return false;
+      set.add(key);
+    }
+  }
+  return count === n * n;
+}
+
+/**
+ * Repeated measures: every subject should have a run in every condition of the within-subject factors
+ * (fixed factors that vary within a subject). One diagnostic per subject lists what is missing.
+ */
+function checkSubjectConditions(design: Design, sink: DiagnosticSink): void {
+  const subject = design.factors.findIndex((f) => f.role === "subject");
+  if (subject < 0) return;
+  const { runs, factors } = design;
+  const keys = subjectKeys(factors, subject, runs);
+  const within = factors.flatMap((f, i) => {
+    if (f.role !== "fixed") return [];
+    const first = new Map<string, number>();
+    for (let r = 0; r < runs.count; r++) {
+      const l = runs.levels[i]![r]!;
+      if (l < 0 || keys[r] === "" || runs.excluded[r]) continue;
+      const prior = first.get(keys[r]!);
+      if (prior === undefined) first.set(keys[r]!, l);
+      else if (prior !== l) return [i];
+    }
+    return [];
+  });
+  if (within.length === 0) return;
+  const conditions = within.reduce((a, f) => a * factors[f]!.levels.length, 1);
+  if (conditions > 10_000) return;
+  const bySubject = new Map<string, { first: number; seen: Set<number> }>();
+  for (let r = 0; r < runs.count; r++) {
+    if (keys[r] === "" || runs.excluded[r]) continue;
+    let c = 0;
+    let ok = true;
+    for (const f of within) {
+      const l = runs.levels[f]![r]!;
+      if (l < 0) ok = false;
+      c = c * factors[f]!.levels.length + l;
+    }
+    if (!ok) continue;
+    const entry = bySubject.get(keys[r]!) ?? { first: r, seen: new Set<number>() };
+    entry.seen.add(c);
+    bySubject.set(keys[r]!, entry);
+  }
+  for (const { first, seen } of bySubject.values()) {
+    if (seen.size === conditions) continue;
+    const missing: string[] = [];
+    for (let c = 0; c < conditions && missing.length < 6; c++) {
+      if (seen.has(c)) continue;
+      let rest = c;
+      const parts: string[] = [];
+      for (let q = within.length - 1; q >= 0; q--) {
+        const f = factors[within[q]!]!;
+        parts.unshift(`${f.name}=${f.levels[rest % f.levels.length]!.name}`);
+        rest = Math.floor(rest / f.levels.length);
+      }
+      missing.push(parts.join(", "));
+    }
+    const name = factors[subject]!.levels[runs.levels[subject]![first]!]!.name;
+    const more = conditions - seen.size - missing.length;
+    sink.add(
+      diagnostic(
+        "missing-condition",
+        runs.rowSpans[first]!,
+        `Subject '${name}' has no run with ${missing.join("; ")}${more > 0 ? ` and ${more} more` : ""}: every subject needs every condition, or it is left out of the repeated-measures analysis. Add the runs (use ? for values not measured yet).`,
+      ),
+    );
+  }
 }
 
 /** The cell (mixed-radix index over `design.cellFactors`) of each run, or -1 where a level is unknown. */

@@ -109,6 +109,10 @@ export interface Design {
   /** Indices of the factors whose level combinations form the design's cells (fixed and block factors). */
   readonly cellFactors: readonly number[];
   readonly hasFraction: boolean;
+  /** `plan fraction` generators resolved to factor indices (docs/designs.md). */
+  readonly fractions?: readonly { readonly generated: number; readonly product: readonly number[]; readonly span: Span }[];
+  /** `plan centre-points N`. */
+  readonly centrePoints?: number;
   /** `plan pairwise A x B`: the interaction terms whose cells are compared pairwise (factor indices). */
   readonly pairwise?: readonly { readonly name: string; readonly factors: readonly number[]; readonly span: Span }[];
   /** Spans of plan settings that analysis diagnostics point at (`replicates`, `detect <response>`). */

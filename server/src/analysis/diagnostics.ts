@@ -39,12 +39,16 @@ export const DIAGNOSTIC_RULES = {
   "internal-error": { severity: "error", summary: "Part of the analysis failed because of a bug in Trialbook; the rest is still reported." },
   "value-out-of-range": { severity: "error", summary: "A number is too large or too small to be represented." },
   "systematic-order": { severity: "warning", summary: "The run order is tied to the levels of a treatment factor, so a drift over time would be confounded with its effect." },
+  "missing-condition": { severity: "warning", summary: "A subject of a repeated-measures design has no run in a condition of the within-subject factors." },
+  "incomplete-subject": { severity: "information", summary: "A subject without a measured value in every condition is left out of the repeated-measures analysis." },
+  "negative-variance-component": { severity: "information", summary: "A variance component estimated by the ANOVA method is negative and is reported as zero." },
+  "special-design": { severity: "information", summary: "A repeated-measures, mixed-model or two-level analysis could not be made; the fixed-effects table is shown instead." },
   "unequal-variance": { severity: "warning", summary: "The spread of the response differs between groups (Brown-Forsythe test), so pooled F tests and intervals may mislead." },
   "non-normal-residuals": { severity: "warning", summary: "The residuals depart from a normal distribution (Shapiro-Wilk test), so small-sample p-values may be off." },
   outlier: { severity: "warning", summary: "A run's externally studentized residual exceeds the Bonferroni bound." },
   "out-of-spec": { severity: "information", summary: "A measured value lies outside the response's specification limits." },
   "low-power": { severity: "warning", summary: "The planned replicates give less than the target power to detect the difference the plan names." },
-  "check-skipped" severity: "hint", summary: "A comparison, model check or power calculation could not be computed for this response." },
+  "check-skipped": { severity: "hint", summary: "A comparison, model check or power calculation could not be computed for this response." },
 } as const satisfies Record<string, DiagnosticRule>;
 
 /** A diagnostic code: one of the keys of `DIAGNOSTIC_RULES`. */

@@ -18,6 +18,13 @@ export interface AnovaRow {
   /** Present on model terms only; null without residual degrees of freedom or variance. */
   readonly f?: number | null;
   readonly p?: number | null;
+  /**
+   * Designs with error strata or random factors (docs/designs.md): the source of the row (or the
+   * combination of rows) whose mean square is this term's F denominator. Absent in the fixed-effects table.
+   */
+  readonly error?: string;
+  /** Degrees of freedom of that denominator (Satterthwaite's where it is a combination). */
+  readonly errorDf?: number | null;
 }
 
 /** Mean of one level of a factor, or one cell of an interaction (`level` is "a x b"). */
@@ -75,6 +82,50 @@ export interface SlopeHomogeneity {
   readonly p: number | null;
 }
 
+/** Sphericity of one within-subject term (docs/designs.md): Mauchly's test and the corrected p-values. */
+export interface SphericityResult {
+  readonly term: string;
+  readonly mauchlyW: number | null;
+  readonly p: number | null;
+  readonly greenhouseGeisser: { readonly epsilon: number; readonly p: number | null };
+  readonly huynhFeldt: { readonly epsilon: number; readonly p: number | null };
+  /** Which correction to read (Girden 1992: Huynh–Feldt when the GG epsilon exceeds 0.75). */
+  readonly recommended: "greenhouseGeisser" | "huynhFeldt";
+  /** Corrected p-values of every term tested in this term's stratum (the term and its interactions with between-subject factors). */
+  readonly corrected: readonly { readonly source: string; readonly greenhouseGeisserP: number | null; readonly huynhFeldtP: number | null }[];
+}
+
+/** One variance component by the ANOVA method; a negative estimate is reported as 0 with `truncated`. */
+export interface VarianceComponentResult {
+  readonly source: string;
+  readonly variance: number;
+  readonly share: number | null;
+  readonly estimate: number;
+  readonly truncated: boolean;
+}
+
+/** The expected mean square of a term of a balanced mixed model and its F denominator. */
+export interface ExpectedMeanSquareResult {
+  readonly source: string;
+  readonly ems: string;
+  readonly denominator: string | null;
+  readonly exact: boolean;
+}
+
+/** One estimated effect of a two-level design. */
+export interface TwoLevelEffectResult {
+  readonly term: string;
+  readonly effect: number;
+  readonly coefficient: number;
+  /** Terms that are the same contrast in the fraction (empty for a full factorial). */
+  readonly aliases: readonly string[];
+  /** |effect| / scale (Lenth's PSE unreplicated, else the effect's standard error): the Pareto bar. */
+  readonly standardized: number | null;
+  /** Normal and half-normal plot scores of this effect. */
+  readonly normalScore: number;
+  readonly halfNormalScore: number;
+}
+
 /** Everything computed for one response. */
 export interface ResponseAnalysis {
   readonly name: string;
@@ -94,6 +145,19 @@ export interface ResponseAnalysis {
   /** The significance level the verdicts use (file, then editor setting, then 0.05). */
   readonly alpha: number;
   readonly confidence: number;
+  /** Which special-design analysis replaced the fixed-effects `anova` rows, if any (docs/designs.md). */
+  readonly designAnalysis?: "repeated-measures" | "mixed-model" | "two-level";
+  readonly sphericity?: readonly SphericityResult[];
+  readonly varianceComponents?: readonly VarianceComponentResult[];
+  /** Share of the first random main effect in the total variance. */
+  readonly icc?: { readonly source: string; readonly value: number } | null;
+  readonly expectedMeanSquares?: readonly ExpectedMeanSquareResult[];
+  readonly effects?: readonly TwoLevelEffectResult[];
+  readonly lenth?: { readonly pse: number; readonly me: number; readonly sme: number; readonly df: number } | null;
+  readonly curvature?: { readonly ss: number; readonly f: number | null; readonly p: number | null } | null;
+  readonly aliases?: readonly { readonly term: string; readonly aliasedWith: readonly string[] }[];
+  readonly definingRelation?: readonly string[];
+  readonly resolution?: number | null;
   /** Pairwise comparisons of level (and `pairwise A x B` cell) means (docs/json-output-comparisons.md). */
   readonly comparisons?: readonly ComparisonResult[];
   /** Compact letter display of the Tukey comparisons: levels sharing a letter do not differ. */
