@@ -18,9 +18,18 @@ export function escapeHtml(text: string): string {
  * raw HTML. A list or quote marker at the very start is escaped too; line breaks become spaces.
  */
 export function escapeMarkdown(text: string): string {
+  return escapeMarkdownCell(text).replace(/^(\s*)([-+]|\d+[.)])/, (_, space: string, marker: string) => space + marker.slice(0, -1) + "\\" + marker.slice(-1));
+}
+
+/** As `escapeMarkdown`, for a table cell, where a leading `-` or `1.` cannot start a list. */
+export function escapeMarkdownCell(text: string): string {
   return text
     .replace(/\r?\n/g, " ")
     .replace(/[\\`*_{}[\]()#|~!]/g, (c) => "\\" + c)
-    .replace(/[&<>"']/g, (c) => HTML_ENTITIES[c]!)
-    .replace(/^(\s*)([-+]|\d+[.)])/, (_, space: string, marker: string) => space + marker.slice(0, -1) + "\\" + marker.slice(-1));
+    .replace(/[&<>"']/g, (c) => HTML_ENTITIES[c]!);
+}
+
+/** Escapes a double-quoted attribute value; single quotes stay (a CSP value needs them as written). */
+export function escapeAttribute(text: string): string {
+  return text.replace(/[&<>"]/g, (c) => HTML_ENTITIES[c]!);
 }

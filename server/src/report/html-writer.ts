@@ -1,6 +1,6 @@
 import type { ReportBlock } from "./blocks.js";
 import { contentSecurityPolicy } from "./csp.js";
-import { escapeHtml } from "./escape.js";
+import { escapeAttribute, escapeHtml } from "./escape.js";
 
 /** How the HTML is used: a standalone file, or the editor's panel (which runs one small script). */
 export interface HtmlWriterOptions {
@@ -50,7 +50,7 @@ export function writeHtml(blocks: readonly ReportBlock[], options: HtmlWriterOpt
 <html lang="en">
 <head>
 <meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="${escapeHtml(contentSecurityPolicy(options.nonce, { script: options.webview }))}">
+<meta http-equiv="Content-Security-Policy" content="${escapeAttribute(contentSecurityPolicy(options.nonce, { script: options.webview }))}">
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <meta name="generator" content="Trialbook">
 <title>${escapeHtml(options.title)}</title>

@@ -1,5 +1,5 @@
 import type { ReportBlock } from "./blocks.js";
-import { escapeMarkdown } from "./escape.js";
+import { escapeMarkdown, escapeMarkdownCell } from "./escape.js";
 import { uniqueSvgIds } from "./html-writer.js";
 
 /**
@@ -27,7 +27,7 @@ function blockMarkdown(block: ReportBlock, k: number): string {
     case "list":
       return block.items.map((item) => `- ${escapeMarkdown(item)}`).join("\n");
     case "table": {
-      const cell = (text: string) => escapeMarkdown(text) || " ";
+      const cell = (text: string) => escapeMarkdownCell(text) || " ";
       const lines = [`| ${block.header.map(cell).join(" | ")} |`, `| ${block.numeric.map((n) => (n ? "---:" : ":---")).join(" | ")} |`, ...block.rows.map((row) => `| ${row.map(cell).join(" | ")} |`)];
       return (block.caption ? `**${escapeMarkdown(block.caption)}**\n\n` : "") + lines.join("\n");
     }
