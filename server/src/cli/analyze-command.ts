@@ -6,6 +6,7 @@ import { alignColumns } from "../text/align-columns.js";
 import { CAUTION } from "../text/caution.js";
 import { formatF, formatNumber, formatP, formatStatistic, MISSING } from "../text/format-number.js";
 import { termRows, termVerdict } from "../text/verdicts.js";
+import { comparisonsText } from "../text/comparisons-text.js";
 import type { DocumentAnalysis, ResponseAnalysis } from "../analysis/results.js";
 import { VERSION } from "../version.js";
 import { choice, parseArguments, probability } from "./arguments.js";
@@ -95,5 +96,7 @@ function responseText(r: ResponseAnalysis, analysis: DocumentAnalysis): string[]
     for (const s of r.slopes) lines.push(`  Slope of ${r.name} on ${s.covariate}: ${formatNumber(s.slope)} (SE ${formatNumber(s.standardError)})`);
     for (const h of r.slopeHomogeneity) lines.push(`  Equal slopes across ${h.term}: F(${h.df1}, ${h.df2}) = ${formatF(h.f)}, p = ${formatP(h.p)}`);
   }
+  // Comparisons, checks, alternatives and power (server/src/text/comparisons-text.ts).
+  lines.push(...comparisonsText(r));
   return lines;
 }
