@@ -1,7 +1,7 @@
 /**
  * The one source of randomness for planning: a seeded xoroshiro128+ generator (Blackman & Vigna 2018,
  * "Scrambled linear pseudorandom number generators", parameters a = 24, b = 16, c = 37) from pure-rand 6,
- * with integers drawn by pure-rand's `unsafeUniformIntDistribution` (rejection sampling, so every value of
+ * advanced once by its jump function (see `planRandom`), with integers drawn by pure-rand's `unsafeUniformIntDistribution` (rejection sampling, so every value of
  * a range is equally likely) and permutations by the Fisher–Yates shuffle (Knuth 1997, TAOCP vol. 2,
  * §3.4.2, Algorithm P).
  *
@@ -34,9 +34,15 @@ export function seedWord(seed: number): number {
   return (low ^ high) | 0;
 }
 
-/** A generator for `seed` (a whole number; see `seedWord` for seeds of 2^32 and above). */
+/**
+ * A generator for `seed` (a whole number; see `seedWord` for seeds of 2^32 and above). pure-rand seeds the
+ * 128-bit state directly from the 32-bit word, so the first outputs of xoroshiro128+ are simple functions
+ * of the seed (the very first is the low word of s0 + s1, i.e. the complement of the seed, for every seed);
+ * so the state is first advanced by the generator's jump function (2^64 steps, Blackman & Vigna 2018),
+ * which mixes every bit of the seed into the state.
+ */
 export function planRandom(seed: number): PlanRandom {
-  const rng: RandomGenerator = xoroshiro128plus(seedWord(seed));
+  const rng: RandomGenerator = xoroshiro128plus(seedWord(seed)).jump!();
   return { int: (from, to) => unsafeUniformIntDistribution(from, to, rng) };
 }
 

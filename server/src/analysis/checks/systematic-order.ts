@@ -18,7 +18,9 @@
  * sorted order gives values near 1; a random order of 8 or more runs reaches 0.7 by chance in roughly 5% of
  * files or fewer (fewer as runs grow: about 0.5% at 16 runs of a two-level factor).
  *
- * Blocking factors (`as block`, `as subject`) are skipped: their runs are grouped on purpose.
+ * Only fixed factors are checked. Blocking factors (`as block`, `as subject`) are grouped on purpose, and
+ * the levels of a random factor (a batch, a lot) are usually made and measured together, so their runs are
+ * grouped by nature; the effects of interest are the fixed ones.
  */
 import type { TrialFile } from "../../../../grammar/src/ast.js";
 import type { Design } from "../design.js";
@@ -69,7 +71,7 @@ export function orderClustering(levels: ArrayLike<number>): OrderClustering | un
 }
 
 /**
- * `systematic-order` warnings for every treatment factor whose levels are clustered in run order, located
+ * `systematic-order` warnings for every fixed factor whose levels are clustered in run order, located
  * at the factor's column in the runs header (or at the `runs` keyword), with the factor's declaration as a
  * related location.
  */
@@ -78,7 +80,7 @@ export function checkSystematicOrder(file: TrialFile, design: Design): Diagnosti
   if (!table || design.runs.count < SYSTEMATIC_ORDER_MIN_RUNS) return [];
   const out: Diagnostic[] = [];
   design.factors.forEach((factor, f) => {
-    if (factor.role === "block" || factor.role === "subject") return;
+    if (factor.role !== "fixed") return;
     const c = orderClustering(design.runs.levels[f]!);
     if (!c || c.n < SYSTEMATIC_ORDER_MIN_RUNS || c.correlation < SYSTEMATIC_ORDER_THRESHOLD) return;
     const column = table.columns.find((x) => x.text === factor.name);
