@@ -100,26 +100,32 @@ function interaction(design: Design, observations: readonly Observation[], yTitl
       cell.n += 1;
       cells.set(key, cell);
     }
-    const values = [...cells.values()].map((c) => ({ x: c.x, series: c.series, mean: c.sum / c.n }));
+    const values = [...cells.entries()].map(([key, c]) => ({ x: c.x, series: c.series, mean: c.sum / c.n, xIndex: Number(key.split(",")[0]) }));
+    // Each line is labelled at its right end, so a series can be told by its name as well as by colour
+    // and marker shape (Vega-Lite does not merge a line's colour legend with a point's shape legend).
+    const ends = new Map<string, (typeof values)[number]>();
+    for (const v of values) if ((ends.get(v.series)?.xIndex ?? -1) < v.xIndex) ends.set(v.series, v);
     const seriesLevels = levelNames(design, b);
     return {
       width: PANEL.width,
       height: PANEL.height,
-      data: { values },
       encoding: {
         x: { field: "x", type: "ordinal", sort: levelNames(design, a), title: factorTitle(design, a), axis: { labelAngle: 0 } },
         y: { field: "mean", type: "quantitative", scale: { zero: false }, title: `mean ${yTitle}` },
         color: { field: "series", type: "nominal", sort: seriesLevels, title: factorTitle(design, b) },
-        shape: { field: "series", type: "nominal", sort: seriesLevels, title: factorTitle(design, b), scale: { range: [...SERIES_SHAPES] } },
       },
-      layer: [{ mark: { type: "line", strokeWidth: 2 } }, { mark: { type: "point", filled: true, size: 60, opacity: 1 } }],
+      layer: [
+        { data: { values }, mark: { type: "line", strokeWidth: 2 } },
+        { data: { values }, mark: { type: "point", filled: true, size: 60, opacity: 1 }, encoding: { shape: { field: "series", type: "nominal", sort: seriesLevels, legend: null, scale: { range: [...SERIES_SHAPES] } } } },
+        { data: { values: [...ends.values()] }, mark: { type: "text", align: "left", dx: 8, fontSize: 11, fontWeight: 600 }, encoding: { text: { field: "series", type: "nominal" } } },
+      ],
     };
   });
   return {
     id: "interaction",
     title,
     caption: "Cell means of the observations: one line per level of the second factor. Parallel lines mean no interaction; crossing or diverging lines mean the effect of one factor depends on the other.",
-    spec: top({ hconcat: panels, resolve: { scale: { color: "independent", shape: "independent" } } }),
+    spec: top({ hconcat: panels, resolve: { scale: { color: "independent", shape: "independent" }, legend: { color: "independent" } } }),
   };
 }
 

@@ -169,7 +169,7 @@ function responseBlocks(analysis: DocumentAnalysis, r: ResponseAnalysis, plots: 
     blocks.push({ kind: "table", caption: "Covariate slopes", header: ["Covariate", "Slope", "Standard error"], numeric: [false, true, true], rows: r.slopes.map((s) => [s.covariate, formatNumber(s.slope), formatNumber(s.standardError)]) });
   }
   if (r.adjustedMeans.length > 0) {
-    blocks.push({ kind: "table", caption: "Means adjusted to the covariate means", header: ["Term", "Level", "Adjusted mean", "Standard error"], numeric: [false, false, true, true], rows: r.adjustedMeans.map((m) => [m.term, m.level, formatNumber(m.mean, 5), formatNumber(m.standardError)]) });
+    blocks.push({ kind: "table", caption: analysis.design.covariates.length > 0 ? "Means adjusted to the covariate means" : "Model-adjusted (least-squares) means", header: ["Term", "Level", "Adjusted mean", "Standard error"], numeric: [false, false, true, true], rows: r.adjustedMeans.map((m) => [m.term, m.level, formatNumber(m.mean, 5), formatNumber(m.standardError)]) });
   }
   if (r.slopeHomogeneity.length > 0) {
     blocks.push({ kind: "list", items: r.slopeHomogeneity.map((h) => `Equal slopes of ${h.covariate} across ${h.term}: F(${h.df1}, ${h.df2}) = ${formatF(h.f)}, p = ${formatP(h.p)}.`) });
