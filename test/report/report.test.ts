@@ -1,11 +1,11 @@
 import assert from "node:assert/strict";
-import { readFileSync } from "node:fs";
+import { readdirSync, readFileSync } from "node:fs";
 import { resolve } from "node:path";
 import { XMLValidator } from "fast-xml-parser";
 import { analyzeDocument } from "../../server/src/analysis/analyze-document.js";
 import { renderReportHtml, renderReportMarkdown, renderPlots } from "../../server/src/report/render-report.js";
 import { CAUTION } from "../../server/src/text/caution.js";
-import { formatF, formatP, formatStatistic } from "../../server/src/text/format-number.js";
+import { formatF, formatNumber, formatP, formatStatistic } from "../../server/src/text/format-number.js";
 
 /** Names of `on...` attributes in any tag (quoted attribute values, where probes may sit escaped, are skipped). */
 function eventHandlerAttributes(html: string): string[] {
@@ -17,7 +17,7 @@ function eventHandlerAttributes(html: string): string[] {
 }
 
 const reference = JSON.parse(readFileSync(resolve("test/report/fixtures/r/report-reference.json"), "utf8"));
-const SAMPLES = ["one-way", "two-factor", "blocked", "covariate", "incomplete"];
+const SAMPLES = readdirSync(resolve("samples")).filter((n) => n.endsWith(".trial")).map((n) => n.slice(0, -".trial".length)).sort();
 const sample = (name: string) => readFileSync(resolve(`samples/${name}.trial`), "utf8");
 
 /** The cells of the HTML table whose caption is `caption`, row by row. */
@@ -52,6 +52,27 @@ describe("report: content against R", () => {
     const line = md.split("\n").find((l) => l.startsWith("| resin x mold\\-temp |") || l.startsWith("| resin x mold-temp |"));
     assert.ok(line, "interaction row in the Markdown table");
     assert.ok(line.includes(`| ${formatStatistic(r.ss[2])} |`) && line.includes(`| ${formatF(r.f[2])} |`) && line.includes(`| ${formatP(r.p[2])} |`), line);
+  });
+});
+
+describe("report: results of the analysis extensions", () => {
+  it("shows the letter groups, comparisons and checks that analyzeDocument computes for the two-factor sample", async () => {
+    const analysis = analyzeDocument(sample("two-factor"));
+    const r = analysis.responses[0]!;
+    const html = await renderReportHtml(analysis);
+    assert.ok(r.groups && r.groups.length > 0 && r.comparisons && r.comparisons.length > 0, "the engine computes groups and comparisons here");
+    const groups = htmlTable(html, "Letter groups (levels that share a letter do not differ significantly)");
+    for (const g of r.groups!.filter((x) => x.term === "resin x mold-temp")) assert.ok(groups.some((row) => row[1] === g.level && row[3] === g.letters), `${g.level} ${g.letters}`);
+    const pairs = htmlTable(html, "Pairwise comparisons with 95% simultaneous intervals");
+    assert.equal(pairs.length - 1, r.comparisons!.length);
+    for (const c of r.comparisons!) assert.ok(pairs.some((row) => row[2] === `${c.a} − ${c.b}` && row[6] === formatP(c.p)), `${c.a} − ${c.b}`);
+    if (r.checks?.shapiroWilk) assert.ok(html.includes(`W = ${formatNumber(r.checks.shapiroWilk.w)}, p = ${formatP(r.checks.shapiroWilk.p)}`));
+  });
+
+  it("draws the half-normal plot from the two-level analysis of the screening sample", async () => {
+    const analysis = analyzeDocument(sample("screening-fraction"));
+    const plots = [...(await renderPlots(analysis)).values()].flat();
+    assert.ok(plots.some((p) => p.title === "Half-normal plot of effects" && "svg" in p));
   });
 });
 

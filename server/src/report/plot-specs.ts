@@ -243,9 +243,15 @@ function quantileOf(sorted: readonly number[], p: number): number {
 
 function halfNormal(design: Design, response: ResponseAnalysis, observations: readonly Observation[], unit: string | undefined): PlotPlan {
   const title = "Half-normal plot of effects";
-  const effects = twoLevelEffects(design, response, observations);
-  if (!effects.ok) return { id: "half-normal", title, note: effects.reason };
-  const points = halfNormalPoints(effects.effects.map((e) => ({ value: e.effect, label: e.term })));
+  let points: { quantile: number; value: number; label: string }[];
+  if (response.effects && response.effects.length >= 2) {
+    // The two-level analysis (analysis/extensions) has estimated the effects and their half-normal scores.
+    points = response.effects.filter((e) => Number.isFinite(e.effect) && Number.isFinite(e.halfNormalScore)).map((e) => ({ quantile: e.halfNormalScore, value: Math.abs(e.effect), label: e.term }));
+  } else {
+    const effects = twoLevelEffects(design, response, observations);
+    if (!effects.ok) return { id: "half-normal", title, note: effects.reason };
+    points = halfNormalPoints(effects.effects.map((e) => ({ value: e.effect, label: e.term })));
+  }
   const x = { field: "quantile", type: "quantitative", title: "half-normal quantile" };
   const y = { field: "effect", type: "quantitative", title: unit ? `|effect| (${unit})` : "|effect|" };
   const values = points.map((p) => ({ quantile: p.quantile, effect: p.value, term: p.label }));

@@ -4,14 +4,12 @@ import type { DocumentAnalysis, ResponseAnalysis } from "../analysis/results.js"
 import { CAUTION } from "../text/caution.js";
 import { formatF, formatNumber, formatP, formatStatistic, MISSING } from "../text/format-number.js";
 import { termRows, termVerdict } from "../text/verdicts.js";
+import { analysisBlocks } from "./analysis-blocks.js";
 import type { ReportBlock } from "./blocks.js";
 import { runProgress } from "./run-progress.js";
 
 /** A plot of one response after rendering: an SVG, or a note saying why it is missing. */
 export type RenderedPlot = { readonly title: string; readonly caption: string; readonly svg: string } | { readonly title: string; readonly note: string };
-
-/** What the report says about analyses that other parts of Trialbook do not compute yet. */
-export const NOT_YET_REPORTED = "Multiple comparisons with letter groups, model checks with alternatives, and power are not part of the report yet.";
 
 /**
  * Builds the report's blocks from an analysis and the rendered plots of each response (keyed by response
@@ -174,7 +172,7 @@ function responseBlocks(analysis: DocumentAnalysis, r: ResponseAnalysis, plots: 
   if (r.slopeHomogeneity.length > 0) {
     blocks.push({ kind: "list", items: r.slopeHomogeneity.map((h) => `Equal slopes of ${h.covariate} across ${h.term}: F(${h.df1}, ${h.df2}) = ${formatF(h.f)}, p = ${formatP(h.p)}.`) });
   }
-  blocks.push({ kind: "note", text: NOT_YET_REPORTED });
+  blocks.push(...analysisBlocks(r));
   for (const plot of plots) {
     if ("svg" in plot) blocks.push({ kind: "plot", title: plot.title, caption: plot.caption, svg: plot.svg });
     else blocks.push({ kind: "heading", level: 3, text: plot.title }, { kind: "note", text: plot.note });
