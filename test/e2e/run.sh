@@ -1,9 +1,17 @@
 #!/usr/bin/env bash
-# `npm run e2e`: installs the editor test tools once (test/e2e/install-tools.sh), packages the
-# extension (`npm run package`), and runs the code-server test. Not part of `npm test`: it needs apt
-# packages and about two minutes of installs on a bare machine. Screenshots: test/e2e/screenshots/.
-set -euo pipefail
+# `npm run e2e` (also `npm run test:e2e`): installs the editor test tools once
+# (test/e2e/install-tools.sh), packages the extension (`npm run package`), then runs
+#   1. the code-server test: the .vsix in a real VS Code build, driven by headless Chromium;
+#   2. the Neovim test: the bundled server through Neovim's built-in LSP client, headless.
+# Not part of `npm test`: it needs apt packages and about two minutes of installs on a bare machine.
+# Screenshots: test/e2e/screenshots/ (SHOT_DIR overrides).
+set -uo pipefail
 ROOT=$(cd "$(dirname "$0")/../.." && pwd)
-bash "$ROOT/test/e2e/install-tools.sh"
-(cd "$ROOT" && npm run package --silent)
-node "$ROOT/test/e2e/code-server.e2e.cjs"
+bash "$ROOT/test/e2e/install-tools.sh" || exit 1
+(cd "$ROOT" && npm run package --silent) || exit 1
+pass=0; fail=0
+if node "$ROOT/test/e2e/code-server.e2e.cjs"; then pass=$((pass + 1)); else fail=$((fail + 1)); fi
+if (cd "$ROOT" && TRIALBOOK_SERVER=dist/server.cjs nvim --headless -u NONE -c 'luafile test/e2e/nvim-lsp.e2e.lua'); then
+  pass=$((pass + 1)); else fail=$((fail + 1)); fi
+echo "editor e2e: $pass passed, $fail failed"
+[ "$fail" -eq 0 ]
