@@ -3,6 +3,9 @@
 # It prints each runs table; the printed tables were pasted into the .trial files as plain text.
 # R's sample() gives the randomized run order; it is not the Trialbook run-sheet randomizer, so
 # the `plan seed` in a sample is only the seed that sample would use if re-planned in Trialbook.
+# Edited by hand after drawing, so that the demo samples show only the warnings they are meant to:
+# two-factor.trial r14 warp 0.21 -> 0.31 and incomplete.trial r07 rub 193 -> 219 (each drew a
+# studentized residual beyond the Bonferroni outlier bound); one-way.trial `detect gloss` 2.0 -> 5.0.
 
 align <- function(cols, pipe_before, trailer = NULL) {
   # cols: named list of character vectors (first is `id`); pipe_before: name of first response column.

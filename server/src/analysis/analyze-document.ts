@@ -3,7 +3,7 @@ import { parseTrial } from "../../../grammar/src/parse.js";
 import { analyzeResponse, extendResult, type ResponseContext } from "./analyze-response.js";
 import { type AnalysisSettings, buildDesign } from "./build-design.js";
 import { checkSystematicOrder } from "./checks/systematic-order.js";
-import { type Diagnostic, diagnostic } from "./diagnostics.js";
+import { type Diagnostic, type DiagnosticCode, diagnostic } from "./diagnostics.js";
 import type { DocumentAnalysis, ResponseAnalysis } from "./results.js";
 import { comparisonsExtension } from "./extensions/comparisons.js";
 import { modelChecksExtension } from "./extensions/model-checks.js";
@@ -16,7 +16,16 @@ import { twoLevelExtension } from "./extensions/two-level.js";
  * An analysis that builds on a response's fit and adds named keys to its result (see results.ts), with
  * diagnostics of its own. Extensions run in list order; each sees the result as extended so far.
  */
-export type ResponseExtension = (context: ResponseContext) => { readonly add: Partial<ResponseAnalysis>; readonly diagnostics: readonly Diagnostic[] };
+export type ResponseExtension = (context: ResponseContext) => {
+  readonly add: Partial<ResponseAnalysis>;
+  readonly diagnostics: readonly Diagnostic[];
+  /**
+   * Codes of earlier diagnostics about this response that no longer apply because this extension replaced
+   * the analysis they describe (e.g. the fixed-effects coding's aliasing when a two-level analysis of a
+   * design with centre points replaces the table). They are removed; the extension's own remain.
+   */
+  readonly supersedes?: readonly DiagnosticCode[];
+};
 
 /** The extensions every analysis runs. Add one line per feature module. */
 const RESPONSE_EXTENSIONS: readonly ResponseExtension[] = [
@@ -47,14 +56,20 @@ export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, 
   const termSpans = modelTermSpans(file);
   design.responses.forEach((response, k) => {
     const { result, diagnostics: found, context } = analyzeResponse(design, k, { response: response.span, terms: termSpans });
+    const firstOfResponse = diagnostics.length;
     diagnostics.push(...found);
     let extended = result;
     if (context) {
       for (const extension of RESPONSE_EXTENSIONS) {
         // One failing analysis must not take the others down: report it where the response is declared.
         try {
-          const { add, diagnostics: more } = extension({ ...context, result: extended });
+          const { add, diagnostics: more, supersedes } = extension({ ...context, result: extended });
           extended = extendResult(extended, add);
+          if (supersedes && supersedes.length > 0) {
+            const stale = new Set(supersedes);
+            const kept = diagnostics.splice(firstOfResponse).filter((d) => !stale.has(d.code));
+            diagnostics.push(...kept);
+          }
           diagnostics.push(...more);
         } catch (error) {
           diagnostics.push(diagnostic("internal-error", response.span, `Part of the analysis of '${response.name}' failed (${error instanceof Error ? error.message : String(error)}). This is a bug in Trialbook: please report it with this file.`));

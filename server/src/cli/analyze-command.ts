@@ -7,6 +7,7 @@ import { CAUTION } from "../text/caution.js";
 import { formatF, formatNumber, formatP, formatStatistic, MISSING } from "../text/format-number.js";
 import { termRows, termVerdict } from "../text/verdicts.js";
 import { comparisonsText } from "../text/comparisons-text.js";
+import { designsText } from "../text/designs-text.js";
 import type { DocumentAnalysis, ResponseAnalysis } from "../analysis/results.js";
 import { VERSION } from "../version.js";
 import { choice, parseArguments, probability } from "./arguments.js";
@@ -75,11 +76,21 @@ function responseText(r: ResponseAnalysis, analysis: DocumentAnalysis): string[]
     lines.push("  No analysis yet (see the diagnostics above).");
     return lines;
   }
-  const table = [["Source", "df", "SS", "MS", "F", "p"]];
+  // Designs with error strata test terms against other rows: show which, so the F can be checked by hand.
+  const strata = r.anova.some((row) => row.error !== undefined);
+  const table = [["Source", "df", "SS", "MS", "F", "p", ...(strata ? ["Tested against"] : [])]];
   for (const row of r.anova) {
-    table.push([row.source, String(row.df), formatStatistic(row.ss), row.ms === undefined ? "" : formatStatistic(row.ms), row.f === undefined ? "" : formatF(row.f), row.p === undefined ? "" : formatP(row.p)]);
+    table.push([
+      row.source,
+      String(row.df),
+      formatStatistic(row.ss),
+      row.ms === undefined ? "" : formatStatistic(row.ms),
+      row.f === undefined ? "" : formatF(row.f),
+      row.p === undefined ? "" : formatP(row.p),
+      ...(strata ? [row.error ?? ""] : []),
+    ]);
   }
-  lines.push("", ...alignColumns(table, { align: ["left", "right", "right", "right", "right", "right"] }).map((l) => "  " + l));
+  lines.push("", ...alignColumns(table, { align: ["left", "right", "right", "right", "right", "right", "left"] }).map((l) => "  " + l));
   lines.push("", `  R² = ${formatNumber(r.rSquared)}   residual SD = ${formatNumber(r.residualSd)}${unit && r.residualSd !== null ? ` ${unit}` : ""}`);
   const verdicts = termRows(r).map((row) => termVerdict(row, r));
   if (verdicts.length > 0) lines.push("", ...verdicts.map((v) => "  " + v));
@@ -98,5 +109,6 @@ function responseText(r: ResponseAnalysis, analysis: DocumentAnalysis): string[]
   }
   // Comparisons, checks, alternatives and power (server/src/text/comparisons-text.ts).
   lines.push(...comparisonsText(r));
+  lines.push(...designsText(r));
   return lines;
 }

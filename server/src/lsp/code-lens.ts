@@ -4,7 +4,7 @@
  */
 import type { ResponseAnalysis } from "../analysis/results.js";
 import { formatF, formatNumber, formatP } from "../text/format-number.js";
-import { residualDf, termRows } from "../text/verdicts.js";
+import { denominatorDf, termRows } from "../text/verdicts.js";
 import type { CodeLens } from "vscode-languageserver";
 import { spanToRange } from "./convert.js";
 import type { AnalyzedDocument } from "./documents.js";
@@ -34,8 +34,10 @@ export function codeLenses(doc: AnalyzedDocument): CodeLens[] {
 export function responseLensTitle(r: ResponseAnalysis): string {
   const rows = termRows(r);
   if (r.anova.length === 0) return `${r.name}: no analysis yet (${r.n} measured run${r.n === 1 ? "" : "s"})`;
-  const df = residualDf(r);
-  const parts = rows.map((row, i) => (i === 0 ? `${row.source} F(${row.df},${df ?? "?"})=${formatF(row.f)} p=${formatP(row.p)}` : `${row.source} p=${formatP(row.p)}`));
+  const parts = rows.map((row, i) => {
+    const df = denominatorDf(row, r);
+    return i === 0 ? `${row.source} F(${row.df},${df === undefined ? "?" : formatNumber(df, 4)})=${formatF(row.f)} p=${formatP(row.p)}` : `${row.source} p=${formatP(row.p)}`;
+  });
   parts.push(`R²=${formatNumber(r.rSquared, 2)}`);
   return parts.join(" · ");
 }

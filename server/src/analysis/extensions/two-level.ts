@@ -18,7 +18,7 @@ import { lenth } from "../../stats/two-level/lenth.js";
 import { halfNormalPlotPoints, normalPlotPoints } from "../../stats/two-level/plot-data.js";
 import { multiplyWords, wordName, wordOf } from "../../stats/two-level/words.js";
 import type { ResponseContext } from "../analyze-response.js";
-import { type Diagnostic, diagnostic } from "../diagnostics.js";
+import { type Diagnostic, type DiagnosticCode, diagnostic } from "../diagnostics.js";
 import type { AnovaRow, ResponseAnalysis, TwoLevelEffectResult } from "../results.js";
 
 /** Per declared level of a factor: -1 low, +1 high, 0 centre; null when the factor is not two-level. */
@@ -40,7 +40,7 @@ function coding(levels: readonly { numeric?: number }[], centre: boolean): Int8A
 }
 
 /** Adds the two-level analysis; does nothing for other designs. */
-export function twoLevelExtension(context: ResponseContext): { add: Partial<ResponseAnalysis>; diagnostics: Diagnostic[] } {
+export function twoLevelExtension(context: ResponseContext): { add: Partial<ResponseAnalysis>; diagnostics: Diagnostic[]; supersedes?: readonly DiagnosticCode[] } {
   const { design } = context;
   const none = { add: {}, diagnostics: [] };
   const factors = design.factors;
@@ -163,6 +163,7 @@ export function twoLevelExtension(context: ResponseContext): { add: Partial<Resp
     rows.push({ source: "Residual", df: pe.df, ss: pe.ss, ms: pureMs });
     rows.push({ source: "Total", df: all.length - 1, ss: total });
     add.anova = rows;
+    return { add, diagnostics, supersedes: ["aliased-term"] };
   }
   return { add, diagnostics };
 }
