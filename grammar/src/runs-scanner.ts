@@ -106,6 +106,8 @@ export function scanRunsBody(source: string, start: number, end: number, headerH
   const excluded = new Map<number, ExcludedMark>();
   const problems: SyntaxProblem[] = [];
 
+  // End of the last run of glued characters reported after a closing quote (see below).
+  let glueEnd = -1;
   let p = start;
   cellOffset.push(0);
   while (p < end) {
@@ -182,9 +184,12 @@ export function scanRunsBody(source: string, start: number, end: number, headerH
           unterminatedCell = true;
           problems.push(problem("unterminated quoted cell: add the closing '\"'", p, qEnd));
         } else if (qEnd < end && !endsBareCell(source.charCodeAt(qEnd))) {
-          // `"a"b`: report the glued characters and go on reading them as another cell.
-          let e = qEnd;
+          // `"a"b`: report the glued characters and go on reading them as another cell. A run of glued
+          // quoted cells (`""""…`) shares one end: start from the one already found, or a long run would
+          // be rescanned once per cell (quadratic).
+          let e = qEnd < glueEnd ? glueEnd : qEnd;
           while (e < end && !endsBareCell(source.charCodeAt(e))) e++;
+          glueEnd = e;
           problems.push(problem("put a space after the closing quote: cells are separated by spaces or tabs", qEnd, e));
         }
         lastContentEnd = qEnd;
