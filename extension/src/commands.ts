@@ -16,11 +16,11 @@ function activeTrial(): vscode.TextDocument | undefined {
 
 /** Registers the commands of design brief §2. */
 export function registerCommands(context: vscode.ExtensionContext, client: LanguageClient, panels: ReportPanels, log: vscode.LogOutputChannel): void {
-  const register = (id: string, run: () => Promise<void> | void) =>
+  const register = (id: string, run: (...args: unknown[]) => Promise<void> | void) =>
     context.subscriptions.push(
-      vscode.commands.registerCommand(id, async () => {
+      vscode.commands.registerCommand(id, async (...args: unknown[]) => {
         try {
-          await run();
+          await run(...args);
         } catch (error) {
           log.error(`${id} failed: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}`);
           void vscode.window.showErrorMessage(`Trialbook: the command failed (${error instanceof Error ? error.message : String(error)}). Details are in the Trialbook output.`);
@@ -28,8 +28,10 @@ export function registerCommands(context: vscode.ExtensionContext, client: Langu
       }),
     );
 
-  register("trialbook.showAnalysis", () => {
-    const document = activeTrial();
+  // The server's code lens passes the document's URI (and the response name) as arguments.
+  register("trialbook.showAnalysis", (uri?: unknown) => {
+    const named = typeof uri === "string" ? vscode.workspace.textDocuments.find((d) => d.uri.toString() === uri && d.languageId === "trial") : undefined;
+    const document = named ?? activeTrial();
     if (document) panels.show(document);
   });
 
