@@ -202,7 +202,18 @@ async function main() {
   await status.first().waitFor({ timeout: 30000 });
   check("status bar: " + (await status.first().innerText()).trim());
 
-  // 5. The report panel beside the editor, with its plots.
+  // 5. Write Run Sheet: the planner adds the pending runs the new level needs; the status bar follows.
+  const before = (await status.first().innerText()).trim();
+  await runCommand("Trialbook: Write Run Sheet");
+  const toast = page.locator(".notifications-toasts .notification-list-item", { hasText: "Trialbook: Run sheet written with seed 3907" });
+  await toast.first().waitFor({ timeout: 30000 });
+  check("run sheet: " + (await toast.first().innerText()).replace(/\s+/g, " ").slice(0, 120));
+  await page.locator(".statusbar-item", { hasText: /\d+\/\d+ runs ·/ }).filter({ hasNotText: before.replace(/^\W+/, "") }).first().waitFor({ timeout: 30000 });
+  check("status bar after the run sheet: " + (await status.first().innerText()).trim());
+  await page.keyboard.press("Control+Shift+P");
+  await page.keyboard.press("Escape");
+
+  // 6. The report panel beside the editor, with its plots.
   await runCommand("Trialbook: Show Analysis");
   const tab = page.locator(".tab", { hasText: "Trialbook — Cover shrinkage" });
   await tab.first().waitFor({ timeout: 30000 });
@@ -218,7 +229,7 @@ async function main() {
   await report.locator("figure").first().scrollIntoViewIfNeeded();
   await page.screenshot({ path: path.join(SHOTS, "4-report-dark.png") });
 
-  // 6. The same panel in the light theme, chosen as a user would, from the theme picker.
+  // 7. The same panel in the light theme, chosen as a user would, from the theme picker.
   await runCommand("Preferences: Color Theme");
   // Wait for the theme list itself (the palette's command list closes first), then filter it.
   await page.locator(".quick-input-list .monaco-list-row", { hasText: "Dark High Contrast" }).first().waitFor({ timeout: 10000 });
@@ -231,7 +242,7 @@ async function main() {
   await page.screenshot({ path: path.join(SHOTS, "5-report-light.png") });
   check("report panel in the light theme");
 
-  // 7. The panel follows edits: change the title, wait for the new title in the panel.
+  // 8. The panel follows edits: change the title, wait for the new title in the panel.
   await editor.locator(".view-lines").click();
   await page.keyboard.press("Control+Home");
   await page.keyboard.press("ArrowDown");
