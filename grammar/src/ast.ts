@@ -126,7 +126,15 @@ export type PlanSetting =
       readonly generator?: ModelTerm;
     }
   /** `pairwise A x B`: comparisons of a term's cells. */
-  | { readonly kind: "pairwise"; readonly span: Span; readonly keywordSpan: Span; readonly term?: ModelTerm };
+  | { readonly kind: "pairwise"; readonly span: Span; readonly keywordSpan: Span; readonly term?: ModelTerm }
+  /** `sigma strength 1.2`: the planned error standard deviation of a response (power before data exist). */
+  | {
+      readonly kind: "sigma";
+      readonly span: Span;
+      readonly keywordSpan: Span;
+      readonly response?: Name;
+      readonly value?: DecimalNumber;
+    };
 
 export interface PlanBlock {
   readonly kind: "plan";

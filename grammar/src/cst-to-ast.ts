@@ -343,6 +343,20 @@ function planBlock(b: Builder, node: PlanBlockCstNode): PlanBlock | undefined {
       ...(difference ? { difference } : {}),
     });
   }
+  for (const s of c.sigmaSetting ?? []) {
+    const kw = firstReal(s.children.Sigma);
+    const sSpan = nodeSpan(s);
+    if (kw === undefined || sSpan === undefined) continue;
+    const response = b.name(s.children.name?.[0]);
+    const value = b.number(s.children.NumberLiteral?.[0]);
+    settings.push({
+      kind: "sigma",
+      span: sSpan,
+      keywordSpan: tokenSpan(kw),
+      ...(response ? { response } : {}),
+      ...(value ? { value } : {}),
+    });
+  }
   for (const s of c.pairwiseSetting ?? []) {
     const kw = firstReal(s.children.Pairwise);
     const sSpan = nodeSpan(s);

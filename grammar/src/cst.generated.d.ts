@@ -228,6 +228,7 @@ export type PlanBlockCstChildren = {
   detectSetting?: DetectSettingCstNode[];
   pairwiseSetting?: PairwiseSettingCstNode[];
   fractionSetting?: FractionSettingCstNode[];
+  sigmaSetting?: SigmaSettingCstNode[];
 };
 
 export interface NumericSettingCstNode extends CstNode {
@@ -284,6 +285,17 @@ export interface DetectSettingCstNode extends CstNode {
 
 export type DetectSettingCstChildren = {
   Detect: IToken[];
+  name: NameCstNode[];
+  NumberLiteral: IToken[];
+};
+
+export interface SigmaSettingCstNode extends CstNode {
+  name: "sigmaSetting";
+  children: SigmaSettingCstChildren;
+}
+
+export type SigmaSettingCstChildren = {
+  Sigma: IToken[];
   name: NameCstNode[];
   NumberLiteral: IToken[];
 };
@@ -349,6 +361,7 @@ export interface ICstNodeVisitor<IN, OUT> extends ICstVisitor<IN, OUT> {
   modelSetting(children: ModelSettingCstChildren, param?: IN): OUT;
   term(children: TermCstChildren, param?: IN): OUT;
   detectSetting(children: DetectSettingCstChildren, param?: IN): OUT;
+  sigmaSetting(children: SigmaSettingCstChildren, param?: IN): OUT;
   pairwiseSetting(children: PairwiseSettingCstChildren, param?: IN): OUT;
   fractionSetting(children: FractionSettingCstChildren, param?: IN): OUT;
   runsTable(children: RunsTableCstChildren, param?: IN): OUT;

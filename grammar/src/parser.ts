@@ -37,6 +37,7 @@ const PLAN_SETTING_WORDS = new Set([
   "pairwise",
   "fraction",
   "centre-points",
+  "sigma",
 ]);
 const OPTION_WORDS = new Set(["levels", "unit", "as", "control", "within", "maximize", "minimize", "target", "spec"]);
 
@@ -59,6 +60,7 @@ function describeExpected(expected: TokenType, ruleName: string, context: ErrorC
     case T.NumberLiteral:
       if (ruleName === "targetClause") return "a target value (a number)";
       if (ruleName === "detectSetting") return "the smallest difference worth detecting (a number)";
+      if (ruleName === "sigmaSetting") return "the planned error standard deviation (a number)";
       return "a number";
     case T.To:
       return "'to' and an upper limit (spec 0.35 to 0.45)";
@@ -434,6 +436,7 @@ export class TrialParser extends CstParser {
         { ALT: () => this.SUBRULE(this.detectSetting) },
         { ALT: () => this.SUBRULE(this.pairwiseSetting) },
         { ALT: () => this.SUBRULE(this.fractionSetting) },
+        { ALT: () => this.SUBRULE(this.sigmaSetting) },
       ]);
     });
   });
@@ -487,6 +490,15 @@ export class TrialParser extends CstParser {
   detectSetting = this.RULE("detectSetting", () => {
     this.CONSUME(T.Detect);
     this.setWhere("the plan setting 'detect'");
+    this.expectName("a response name");
+    this.SUBRULE(this.name);
+    this.CONSUME(T.NumberLiteral);
+  });
+
+  /** `sigma strength 1.2`: the planned error standard deviation of a response, used for power before data exist. */
+  sigmaSetting = this.RULE("sigmaSetting", () => {
+    this.CONSUME(T.Sigma);
+    this.setWhere("the plan setting 'sigma'");
     this.expectName("a response name");
     this.SUBRULE(this.name);
     this.CONSUME(T.NumberLiteral);

@@ -53,6 +53,7 @@ export const CONTEXTUAL_KEYWORDS = [
   "x",
   "to",
   "excluded",
+  "sigma",
 ] as const;
 
 /** Every keyword of the language: the top-level ones followed by the contextual ones. */
@@ -287,6 +288,7 @@ export const CentrePoints = keyword("centre-points", "CentrePoints");
 export const Cross = keyword("x", "Cross");
 export const To = keyword("to", "To");
 export const Excluded = keyword("excluded", "Excluded");
+export const Sigma = keyword("sigma", "Sigma");
 
 /** Any single character nothing else accepts; the parser reports it instead of the lexer failing. */
 export const Unknown = createToken({ name: "Unknown", pattern: /[^\s]/ });
@@ -334,6 +336,7 @@ const CONTEXTUAL_TOKENS = [
   Cross,
   To,
   Excluded,
+  Sigma,
 ];
 
 const MAIN_MODE: TokenType[] = [

@@ -7,7 +7,7 @@ import { type Diagnostic, type DiagnosticCode, diagnostic } from "./diagnostics.
 import type { DocumentAnalysis, ResponseAnalysis } from "./results.js";
 import { comparisonsExtension } from "./extensions/comparisons.js";
 import { modelChecksExtension } from "./extensions/model-checks.js";
-import { powerExtension } from "./extensions/power.js";
+import { plannedPower, powerExtension } from "./extensions/power.js";
 import { repeatedMeasuresExtension } from "./extensions/repeated-measures.js";
 import { mixedModelExtension } from "./extensions/mixed-model.js";
 import { twoLevelExtension } from "./extensions/two-level.js";
@@ -74,6 +74,15 @@ export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, 
         } catch (error) {
           diagnostics.push(diagnostic("internal-error", response.span, `Part of the analysis of '${response.name}' failed (${error instanceof Error ? error.message : String(error)}). This is a bug in Trialbook: please report it with this file.`));
         }
+      }
+    } else {
+      // No fit (no measured runs yet): power can still be planned from `plan sigma`.
+      try {
+        const planned = plannedPower(design, k, { response: response.span, terms: termSpans });
+        extended = extendResult(extended, planned.add);
+        diagnostics.push(...planned.diagnostics);
+      } catch (error) {
+        diagnostics.push(diagnostic("internal-error", response.span, `The planned power of '${response.name}' failed (${error instanceof Error ? error.message : String(error)}). This is a bug in Trialbook: please report it with this file.`));
       }
     }
     responses.push(extended);

@@ -181,6 +181,11 @@ function resolveResponses(
   for (const s of file.plan?.settings ?? []) {
     if (s.kind === "detect" && s.response && s.difference) detect.set(s.response.text, s.difference);
   }
+  // `plan sigma` is resolved like `detect`: the last setting for a response wins, it must be positive.
+  const sigma = new Map<string, DecimalNumber>();
+  for (const s of file.plan?.settings ?? []) {
+    if (s.kind === "sigma" && s.response && s.value) sigma.set(s.response.text, s.value);
+  }
   const result: DesignResponse[] = [];
   for (const decl of file.responses) {
     if (!decl.name) continue;
@@ -202,6 +207,10 @@ function resolveResponses(
     if (d && !(d.value > 0)) {
       sink.add(diagnostic("invalid-setting", d.span, `'detect ${name}' needs a positive difference, not ${d.text}.`));
     }
+    const planned = sigma.get(name);
+    if (planned && !(planned.value > 0 && Number.isFinite(planned.value))) {
+      sink.add(diagnostic("invalid-setting", planned.span, `'sigma ${name}' is the planned error standard deviation and must be positive, not ${planned.text}.`));
+    }
     result.push({
       name,
       span: decl.name.span,
@@ -211,10 +220,11 @@ function resolveResponses(
       ...(spec?.lower ? { specLower: spec.lower.value } : {}),
       ...(spec?.upper ? { specUpper: spec.upper.value } : {}),
       ...(d && d.value > 0 ? { detect: d.value } : {}),
+      ...(planned && planned.value > 0 && Number.isFinite(planned.value) ? { sigma: planned.value } : {}),
     });
   }
   for (const s of file.plan?.settings ?? []) {
-    if (s.kind === "detect" && s.response && !result.some((r) => r.name === s.response!.text)) {
+    if ((s.kind === "detect" || s.kind === "sigma") && s.response && !result.some((r) => r.name === s.response!.text)) {
       sink.add(diagnostic("unknown-response", s.response.span, `'${s.response.text}' is not a declared response${listOf(result.map((r) => r.name))}.`));
     }
   }

@@ -36,6 +36,8 @@ export interface DesignResponse {
   readonly specUpper?: number;
   /** `plan detect NAME DIFF`: the smallest difference worth finding. */
   readonly detect?: number;
+  /** `plan sigma NAME S`: the planned error standard deviation, used for power until the runs estimate it. */
+  readonly sigma?: number;
 }
 
 /** One variable of a model term: a factor or a covariate, by index. */

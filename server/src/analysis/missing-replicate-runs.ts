@@ -4,7 +4,7 @@
  * reordered: new runs are interleaved at random (seeded, so the plan is reproducible) with the trailing
  * pending rows, or appended after the last row when there are none.
  */
-import { unsafeUniformIntDistribution, xoroshiro128plus, type RandomGenerator } from "pure-rand";
+import { type PlanRandom, planRandom } from "../planning/seeded-random.js";
 import { cellIndexOfRuns } from "./build-design.js";
 import { type Design, ValueStatus } from "./design.js";
 
@@ -30,8 +30,9 @@ export const DEFAULT_SEED = 1;
 /**
  * The runs missing from every cell that has fewer non-excluded runs than `plan replicates` (empty cells
  * included, except in fractional designs where empty cells are intended). The new runs are shuffled with
- * the Fisher–Yates algorithm (Knuth 1997, TAOCP vol. 2, Algorithm P) driven by xoroshiro128+ seeded with the
- * plan's `seed`, then merged at uniformly random positions with the trailing pending rows (rows after the
+ * the Fisher–Yates algorithm (Knuth 1997, TAOCP vol. 2, Algorithm P) driven by the planner's generator
+ * (`planRandom` of planning/seeded-random.ts: xoroshiro128+, seeded and jumped the same way) with the
+ * plan's `seed`, so a seed means one generator everywhere in Trialbook, then merged at uniformly random positions with the trailing pending rows (rows after the
  * last row with a measured value), keeping the pending rows' own order.
  */
 export function planMissingReplicateRuns(design: Design): MissingRunsPlan {
@@ -57,8 +58,8 @@ export function planMissingReplicateRuns(design: Design): MissingRunsPlan {
 
   const seedFromFile = design.settings.seed !== undefined;
   const seed = design.settings.seed ?? DEFAULT_SEED;
-  // Seeds are whole numbers of any size in the file; the generator takes 32 bits.
-  const rng = xoroshiro128plus(seed % 0x1_0000_0000 | 0);
+  // The planner's generator: seeds of any size are folded into its 32-bit word the same way (seedWord).
+  const rng = planRandom(seed);
   shuffle(newCells, rng);
 
   // The pending region: rows after the last row with any measured response value.
@@ -95,9 +96,9 @@ function decodeCell(design: Design, cell: number): number[] {
   return out;
 }
 
-function shuffle(items: { length: number; [i: number]: number }, rng: RandomGenerator): void {
+function shuffle(items: { length: number; [i: number]: number }, rng: PlanRandom): void {
   for (let i = items.length - 1; i > 0; i--) {
-    const j = unsafeUniformIntDistribution(0, i, rng);
+    const j = rng.int(0, i);
     const t = items[i]!;
     items[i] = items[j]!;
     items[j] = t;

@@ -170,7 +170,7 @@ export interface ResponseAnalysis {
   readonly checks?: ModelChecks;
   /** Tests that do not assume what a failed check questions (one-factor and blocked one-factor designs). */
   readonly alternatives?: AlternativeTests;
-  /** Power of each fixed main effect's F test to detect `plan detect` at the observed residual SD. */
+  /** Power of each fixed main effect's F test to detect `plan detect` at the observed residual SD or `plan sigma`. */
   readonly power?: readonly PowerResult[];
 }
 
@@ -265,4 +265,6 @@ export interface PowerResult {
   readonly power: number;
   readonly target: number;
   readonly replicatesNeeded: number | null;
+  /** Where `sigma` came from: `plan sigma` ("planned") or the residual SD of the measured runs ("observed"). */
+  readonly sigmaSource?: "planned" | "observed";
 }

@@ -107,7 +107,7 @@ export function symbolAt(file: TrialFile, offset: number): SymbolAt | undefined 
         if (s.generated) names.push(s.generated);
         if (s.generator) names.push(...s.generator.names);
       }
-      if (s.kind === "detect" && s.response) names.push(s.response);
+      if ((s.kind === "detect" || s.kind === "sigma") && s.response) names.push(s.response);
       for (const n of names) if (within(n.span, offset)) return reference(n);
     }
   }

@@ -52,7 +52,7 @@ function collectName(file: TrialFile, kind: "factor" | "covariate" | "response",
     if (s.kind === "model") for (const t of s.terms) names.push(...t.names);
     if (s.kind === "pairwise") names.push(...(s.term?.names ?? []));
     if (s.kind === "fraction") names.push(s.generated, ...(s.generator?.names ?? []));
-    if (s.kind === "detect") names.push(s.response);
+    if (s.kind === "detect" || s.kind === "sigma") names.push(s.response);
     for (const n of names) if (isUse(n)) add(n.span);
   }
   for (const c of file.runs?.columns ?? []) if (isUse(c)) add(c.span);

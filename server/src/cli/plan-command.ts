@@ -11,8 +11,10 @@ import { randomInt } from "node:crypto";
 import { readFile, rename, unlink, writeFile } from "node:fs/promises";
 import { basename, dirname, join, resolve } from "node:path";
 import { LineIndex } from "../../../grammar/src/line-index.js";
+import { analyzeDocument } from "../analysis/analyze-document.js";
 import { planSummaryLines } from "../planning/plan-summary-text.js";
 import { printableRunSheet } from "../planning/printable-run-sheet.js";
+import { replicatesNeededLine } from "../planning/replicates-needed-text.js";
 import { planRunSheet } from "../planning/run-sheet.js";
 import { choice, parseArguments } from "./arguments.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
@@ -25,9 +27,6 @@ export const PLAN_USAGE = `Usage: trialbook plan FILE [-o OUT] [--dry-run] [--fo
   --dry-run          print what would be done (design, runs kept and added, seed, replicates needed)
   --seed N           use seed N (written into the file) and re-randomize the pending runs
   --reshuffle        re-randomize the pending runs even when none need adding`;
-
-/** The line `--dry-run` prints about replicates needed for the power target. */
-export const REPLICATES_NOT_AVAILABLE = "replicates needed: not available yet";
 
 /** `trialbook plan`: plans one file. */
 export async function planCommand(args: readonly string[], io: CliIo): Promise<number> {
@@ -61,7 +60,7 @@ export async function planCommand(args: readonly string[], io: CliIo): Promise<n
     return EXIT_PROBLEMS;
   }
   if (values["dry-run"]) {
-    io.stdout(`${path}: plan (dry run, nothing written)\n${planSummaryLines(result.summary, REPLICATES_NOT_AVAILABLE).map((l) => `  ${l}\n`).join("")}`);
+    io.stdout(`${path}: plan (dry run, nothing written)\n${planSummaryLines(result.summary, replicatesNeededLine(analyzeDocument(text))).map((l) => `  ${l}\n`).join("")}`);
     return EXIT_OK;
   }
   const output = format === "trial" ? result.text : printableRunSheet(result.text, format);

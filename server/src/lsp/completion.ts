@@ -17,7 +17,7 @@ export interface CompletionCapabilities {
 }
 
 /** Plan setting keywords, in the order the language reference lists them. */
-export const PLAN_KEYWORDS = ["replicates", "alpha", "confidence", "power", "seed", "sums-of-squares", "model", "detect", "pairwise", "fraction", "centre-points"] as const;
+export const PLAN_KEYWORDS = ["replicates", "alpha", "confidence", "power", "seed", "sums-of-squares", "model", "detect", "pairwise", "fraction", "centre-points", "sigma"] as const;
 
 const DECLARATION_OPTIONS: Record<string, readonly string[]> = {
   factor: ["levels", "unit", "as", "control", "within"],
@@ -106,7 +106,7 @@ function planItems(file: TrialFile, before: readonly string[]): CompletionItem[]
     if (before.length > 1 && last !== "x" && !last.endsWith(",") && last !== "=") items.push(keyword("x"));
     return items;
   }
-  if (key === "detect" && before.length === 1) return names(file.responses, CompletionItemKind.Property, "response");
+  if ((key === "detect" || key === "sigma") && before.length === 1) return names(file.responses, CompletionItemKind.Property, "response");
   if (key === "sums-of-squares" && before.length === 1) return ["I", "II", "III"].map((t) => ({ label: t, kind: CompletionItemKind.EnumMember }));
   return [];
 }

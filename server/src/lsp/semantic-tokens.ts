@@ -73,7 +73,7 @@ export function collectTokens(file: TrialFile): RawToken[] {
     if (s.kind === "model") for (const t of s.terms) t.names.forEach(use);
     if (s.kind === "pairwise") s.term?.names.forEach(use);
     if (s.kind === "fraction") [s.generated, ...(s.generator?.names ?? [])].forEach(use);
-    if (s.kind === "detect") use(s.response);
+    if (s.kind === "detect" || s.kind === "sigma") use(s.response);
   }
   const table = file.runs;
   if (table) {

@@ -47,7 +47,12 @@ export function comparisonsText(r: ResponseAnalysis): string[] {
     if (parts.length > 0) lines.push(`  Alternatives for ${a.term}: ${parts.join("; ")}.`);
   }
   for (const p of r.power ?? []) {
-    lines.push(`  Power for ${p.term}: ${formatNumber(p.power, 2)} to detect ${p.difference} with ${p.replicates} replicate${p.replicates === 1 ? "" : "s"} (σ = ${formatNumber(p.sigma, 3)}); target ${p.target} needs ${p.replicatesNeeded ?? "more than 1000"} replicates.`);
+    lines.push(`  Power for ${p.term}: ${formatNumber(p.power, 2)} to detect ${p.difference} with ${p.replicates} replicate${p.replicates === 1 ? "" : "s"} (σ = ${formatNumber(p.sigma, 3)} ${sigmaSourceWords(p.sigmaSource)}); target ${p.target} needs ${p.replicatesNeeded ?? "more than 1000"} replicates.`);
   }
   return lines;
+}
+
+/** How a text names where a power computation's σ came from: "from the residuals" or "planned ('plan sigma')". */
+export function sigmaSourceWords(source: "planned" | "observed" | undefined): string {
+  return source === "planned" ? "planned ('plan sigma')" : "from the residuals";
 }
