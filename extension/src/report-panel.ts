@@ -3,6 +3,16 @@ import type { LanguageClient } from "vscode-languageclient/node";
 import { ReportRequest } from "../../server/src/protocol.js";
 import { panelTitle } from "./status-text.js";
 
+/** One open panel: its last shown version, its debounce timer, and whether a request is in flight. */
+interface PanelEntry {
+  readonly panel: vscode.WebviewPanel;
+  version: number;
+  timer?: ReturnType<typeof setTimeout>;
+  /** True while a report request runs; `again` asks for one more when it ends. */
+  busy: boolean;
+  again: boolean;
+}
+
 /**
  * The analysis report beside the editor, one panel per document, updated as the user types. The HTML
  * comes from the language server (one renderer for the panel and `trialbook report`), with its own strict
@@ -10,7 +20,7 @@ import { panelTitle } from "./status-text.js";
  * resources. The panel allows scripts only for that nonce'd script and loads no local files.
  */
 export class ReportPanels implements vscode.Disposable {
-  private readonly panels = new Map<string, { panel: vscode.WebviewPanel; version: number; timer?: ReturnType<typeof setTimeout> }>();
+  private readonly panels = new Map<string, PanelEntry>();
   private readonly subscriptions: vscode.Disposable[] = [];
 
   constructor(
@@ -42,7 +52,7 @@ export class ReportPanels implements vscode.Disposable {
       retainContextWhenHidden: false,
     });
     panel.webview.html = `<!DOCTYPE html><html><head><meta http-equiv="Content-Security-Policy" content="default-src 'none';"></head><body><p>Analysing…</p></body></html>`;
-    const entry = { panel, version: -1 };
+    const entry: PanelEntry = { panel, version: -1, busy: false, again: false };
     this.panels.set(key, entry);
     panel.onDidDispose(() => {
       const e = this.panels.get(key);
@@ -67,16 +77,30 @@ export class ReportPanels implements vscode.Disposable {
   private async update(key: string): Promise<void> {
     const entry = this.panels.get(key);
     if (!entry) return;
+    // Drawing plots takes a while: while one report is being made, later edits ask for a single new one
+    // when it is done, instead of piling requests onto the server.
+    if (entry.busy) {
+      entry.again = true;
+      return;
+    }
+    entry.busy = true;
     try {
       const result = await this.client.sendRequest(ReportRequest, { textDocument: { uri: key }, format: "html", webview: true });
       const current = this.panels.get(key);
       // A slower, older answer must not overwrite a newer report.
-      if (!result || !current || result.version < current.version) return;
-      current.version = result.version;
-      current.panel.title = panelTitle(result.title);
-      current.panel.webview.html = result.content;
+      if (result && current && result.version >= current.version) {
+        current.version = result.version;
+        current.panel.title = panelTitle(result.title);
+        current.panel.webview.html = result.content;
+      }
     } catch (error) {
       this.log.error(`Updating the report failed: ${error instanceof Error ? error.message : String(error)}`);
+    } finally {
+      entry.busy = false;
+      if (entry.again && this.panels.get(key) === entry) {
+        entry.again = false;
+        void this.update(key);
+      }
     }
   }
 
