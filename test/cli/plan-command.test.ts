@@ -34,14 +34,26 @@ describe("cli: trialbook plan", () => {
     assert.equal(b.out(), planned);
   });
 
-  it("--dry-run prints the summary and that replicates needed are not available yet, writing nothing", async () => {
+  it("--dry-run prints the summary and why replicates needed are not computed without 'detect', writing nothing", async () => {
     const dir = mkdtempSync(path.join(tmpdir(), "trialbook-plan-"));
     writeFileSync(path.join(dir, "bath.trial"), FILE);
     const a = io(dir);
     assert.equal(await runCli(["plan", "bath.trial", "--dry-run", "-o", "bath.trial"], a.value), 0);
     assert.match(a.out(), /pending rows added: 4/);
-    assert.match(a.out(), /replicates needed: not available yet/);
+    assert.match(a.out(), /replicates needed: not computed, the plan has no 'detect <response> <difference>' setting/);
     assert.equal(readFileSync(path.join(dir, "bath.trial"), "utf8"), FILE);
+  });
+
+  it("--dry-run prints the replicates needed from 'detect' and 'plan sigma' (14, the ceiling of R's power.anova.test n = 13.38)", async () => {
+    // Invented adhesive cure; reference: test/stats/fixtures/r/plan-sigma (R 4.2.2 power.anova.test).
+    const dir = mkdtempSync(path.join(tmpdir(), "trialbook-plan-"));
+    const text = "response strength unit MPa\nfactor profile levels ramp-fast, ramp-slow, step\nplan\n  replicates 3\n  seed 7\n  detect strength 1.5\n  sigma strength 1.2\n";
+    writeFileSync(path.join(dir, "cure.trial"), text);
+    const a = io(dir);
+    assert.equal(await runCli(["plan", "cure.trial", "--dry-run"], a.value), 0);
+    assert.match(a.out(), /replicates needed: strength 14 \(profile 14; to detect 1\.5 MPa with power 0\.8 at σ = 1\.2 MPa planned \('plan sigma'\), α = 0\.05\)/);
+    assert.doesNotMatch(a.out(), /not available yet/);
+    assert.equal(readFileSync(path.join(dir, "cure.trial"), "utf8"), text);
   });
 
   it("prints an HTML sheet with every user string escaped, and a Markdown sheet", async () => {

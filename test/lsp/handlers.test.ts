@@ -102,8 +102,11 @@ describe("lsp handlers (in process)", () => {
       assert.equal(formatNumber(res.residual), "0.65");
     });
 
-    it("says power is not available yet on replicates", () => {
-      assert.match(hoverText(at(COATING, "replicates 2", 3))!, /not available yet/);
+    it("on replicates without 'detect', says what power needs instead of a number", () => {
+      const md = hoverText(at(COATING, "replicates 2", 3))!;
+      assert.match(md, /\*\*replicates 2\*\*/);
+      assert.match(md, /detect <response> <difference>/);
+      assert.doesNotMatch(md, /not available yet/);
     });
 
     it("has nothing to say on white space", () => {

@@ -1,7 +1,8 @@
 /**
  * Code actions: declare an unknown level, add pending `?` rows for every missing replicate (seeded random
- * positions, existing rows never reordered), and mark a run excluded (with a snippet for the reason) or
- * restore it.
+ * positions, existing rows never reordered), set `replicates` to the smallest value reaching the power
+ * target (`low-power`), write the randomized run sheet (on `runs`, or on `plan` when there is no runs
+ * table), and mark a run excluded (with a snippet for the reason) or restore it.
  */
 import type { Span, TrialFile } from "../../../grammar/src/ast.js";
 import { findRowAt } from "../../../grammar/src/runs-table.js";
@@ -13,6 +14,7 @@ import { codePointLength } from "../text/align-columns.js";
 import { rangeToSpan, spanToRange, toLspDiagnostic } from "./convert.js";
 import type { AnalyzedDocument } from "./documents.js";
 import { nameToSource } from "./name-text.js";
+import { runSheetOf } from "./run-sheet-request.js";
 
 /** What the client can apply. */
 export interface CodeActionCapabilities {
@@ -46,8 +48,15 @@ export function codeActions(doc: AnalyzedDocument, params: CodeActionParams, cap
       const action = addMissingRuns(doc, gap);
       if (action) actions.push(action);
     }
+    const lowPower = touching.find((d) => d.code === "low-power");
+    if (lowPower) {
+      const action = setReplicatesForPower(doc, lowPower);
+      if (action) actions.push(action);
+    }
   }
   if (wants(CodeActionKind.RefactorRewrite)) {
+    const sheet = writeRunSheet(doc, span);
+    if (sheet) actions.push(sheet);
     const action = toggleExcluded(doc, span.start, caps);
     if (action) actions.push(action);
   }
@@ -136,6 +145,62 @@ function addMissingRuns(doc: AnalyzedDocument, d: Diagnostic): CodeAction | unde
     diagnostics: [lspDiagnostic(doc, d)],
     edit: edit(doc, edits),
   };
+}
+
+/**
+ * `low-power`: set `plan replicates` to the smallest count at which every main effect of every response with
+ * `detect` reaches the power target, i.e. the largest `replicatesNeeded` of the analysis' power results.
+ * Replaces the number of `replicates N` (its span is `design.planSpans.replicates`), or adds the setting as
+ * the plan's first line when the plan has none.
+ */
+function setReplicatesForPower(doc: AnalyzedDocument, d: Diagnostic): CodeAction | undefined {
+  const { file, design, responses } = doc.analysis;
+  const plan = file.plan;
+  if (!plan) return undefined;
+  let needed = 0;
+  for (const r of responses) for (const p of r.power ?? []) if (p.replicatesNeeded !== null) needed = Math.max(needed, p.replicatesNeeded);
+  if (needed < 1 || needed === design.settings.replicates) return undefined;
+  let change: TextEdit;
+  const at = design.planSpans?.replicates;
+  const setting = [...plan.settings].reverse().find((x) => x.kind === "replicates");
+  if (at && setting) {
+    const hasNumber = setting.kind === "replicates" && setting.value !== undefined && setting.value.span.start === at.start && setting.value.span.end === at.end;
+    change = { range: spanToRange(doc.lineIndex, at), newText: hasNumber ? String(needed) : `replicates ${needed}` };
+  } else {
+    const eol = doc.text.includes("\r\n") ? "\r\n" : "\n";
+    const first = plan.settings[0];
+    if (first) {
+      const lineStart = lineStartOf(doc, first.span.start);
+      const indent = doc.text.slice(lineStart, first.span.start);
+      const clean = /^[ \t]*$/.test(indent) ? indent : "  ";
+      change = { range: spanToRange(doc.lineIndex, { start: lineStart, end: lineStart }), newText: `${clean}replicates ${needed}${eol}` };
+    } else {
+      const end = plan.keywordSpan.end;
+      change = { range: spanToRange(doc.lineIndex, { start: end, end }), newText: `${eol}  replicates ${needed}` };
+    }
+  }
+  return {
+    title: `Set replicates to ${needed} (the smallest count reaching power ${design.settings.power} for every term)`,
+    kind: CodeActionKind.QuickFix,
+    diagnostics: [lspDiagnostic(doc, d)],
+    isPreferred: true,
+    edit: edit(doc, [change]),
+  };
+}
+
+/**
+ * "Write Run Sheet" on the `runs` keyword, or on the `plan` keyword of a file with no runs table: the
+ * planner's edits (planning/run-sheet.ts, converted to LSP edits by run-sheet-request.ts). Not offered when
+ * the file cannot be planned or the run sheet is already complete.
+ */
+function writeRunSheet(doc: AnalyzedDocument, span: Span): CodeAction | undefined {
+  const { file } = doc.analysis;
+  const touches = (s: Span) => s.start <= span.end && span.start <= s.end;
+  const anchor = file.runs ? file.runs.keywordSpan : file.plan?.keywordSpan;
+  if (!anchor || !touches(anchor)) return undefined;
+  const sheet = runSheetOf(doc, false);
+  if (!sheet.ok || sheet.edits.length === 0) return undefined;
+  return { title: "Write Run Sheet", kind: CodeActionKind.RefactorRewrite, edit: edit(doc, [...sheet.edits]) };
 }
 
 /** Mark the run at `offset` excluded (snippet for the reason), or restore it when it already is. */

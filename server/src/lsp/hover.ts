@@ -1,9 +1,11 @@
 /**
- * Hovers: a response's ANOVA table and verdicts, a factor's level means, a level's statistics, a value
- * cell's fitted value and residuals, and what `replicates` will show once power exists.
+ * Hovers: a response's ANOVA table, verdicts, letter groups, best level, model checks and power; a factor's
+ * level means with their letter groups; a level's statistics; a value cell's fitted value and residuals; and
+ * on `replicates` the power of each main effect and the replicates the power target needs.
  */
 import { symbolAt } from "../analysis/symbol-at.js";
-import type { LevelMean, ResponseAnalysis } from "../analysis/results.js";
+import type { LevelMean, PowerResult, ResponseAnalysis } from "../analysis/results.js";
+import { sigmaSourceWords } from "../text/comparisons-text.js";
 import { formatF, formatNumber, formatP, formatStatistic, MISSING } from "../text/format-number.js";
 import { termRows, termVerdict } from "../text/verdicts.js";
 import { type Hover, MarkupKind, type Position } from "vscode-languageserver";
@@ -43,6 +45,8 @@ export function responseHover(doc: AnalyzedDocument, name: string): string {
   const lines = [`**${md(name)}**${unit ? ` (${md(unit)})` : ""} · ${r.n} measured run${r.n === 1 ? "" : "s"} · Type ${r.ssType} sums of squares`, ""];
   if (r.anova.length === 0) {
     lines.push("No ANOVA yet: see the diagnostics for why.");
+    const power = powerLines(r, unit);
+    if (power.length > 0) lines.push("", ...power);
     return lines.join("\n");
   }
   lines.push("| Source | df | SS | MS | F | p |", "|:--|--:|--:|--:|--:|--:|");
@@ -54,7 +58,50 @@ export function responseHover(doc: AnalyzedDocument, name: string): string {
   lines.push("", `R² = ${formatNumber(r.rSquared)} · residual SD = ${formatNumber(r.residualSd)}${unit && r.residualSd !== null ? ` ${md(unit)}` : ""}`);
   const verdicts = termRows(r).map((row) => `- ${md(termVerdict(row, r))}`);
   if (verdicts.length > 0) lines.push("", ...verdicts);
+  for (const term of [...new Set((r.groups ?? []).map((g) => g.term))]) {
+    const groups = r.groups!.filter((g) => g.term === term).map((g) => `${md(g.level)} **${md(g.letters)}**`);
+    lines.push("", `Groups of ${md(term)} (Tukey HSD, α = ${r.alpha}; levels sharing a letter do not differ): ${groups.join(" · ")}`);
+    const best = bestLine(r, term);
+    if (best) lines.push("", best);
+  }
+  const checks = checksLine(r);
+  if (checks) lines.push("", checks);
+  const power = powerLines(r, unit);
+  if (power.length > 0) lines.push("", ...power);
   return lines.join("\n");
+}
+
+/** The best level of `term` by the response's goal, with the levels indistinguishable from it. */
+function bestLine(r: ResponseAnalysis, term: string): string | undefined {
+  const best = r.best?.find((b) => b.term === term);
+  if (!best) return undefined;
+  const others = best.indistinguishable.length > 0 ? `; not distinguishable from it: ${best.indistinguishable.map(md).join(", ")}` : "; it differs from every other level";
+  return `Best ${md(term)} by goal (${best.goal}): **${md(best.level)}**${others}.`;
+}
+
+/** One line with the model checks that could be computed, or undefined when there are none. */
+function checksLine(r: ResponseAnalysis): string | undefined {
+  const k = r.checks;
+  if (!k) return undefined;
+  const parts: string[] = [];
+  if (k.brownForsythe) parts.push(`Brown–Forsythe F(${k.brownForsythe.df1}, ${k.brownForsythe.df2}) = ${formatF(k.brownForsythe.statistic)}, p = ${formatP(k.brownForsythe.p)}`);
+  if (k.levene) parts.push(`Levene F = ${formatF(k.levene.statistic)}, p = ${formatP(k.levene.p)}`);
+  if (k.bartlett) parts.push(`Bartlett χ²(${k.bartlett.df}) = ${formatF(k.bartlett.statistic)}, p = ${formatP(k.bartlett.p)}`);
+  if (k.shapiroWilk) parts.push(`Shapiro–Wilk W = ${formatNumber(k.shapiroWilk.w, 4)}, p = ${formatP(k.shapiroWilk.p)}`);
+  if (k.outliers) parts.push(k.outliers.length === 0 ? "no outlier (Bonferroni)" : `outliers: ${k.outliers.map((o) => md(o.run)).join(", ")}`);
+  if (parts.length === 0) return undefined;
+  return `Checks${k.groupsBy ? ` (groups: ${md(k.groupsBy)})` : ""}: ${parts.join("; ")}.`;
+}
+
+/** One bullet per main effect: its power, the σ it used and where σ came from, and the replicates needed. */
+function powerLines(r: ResponseAnalysis, unit: string | undefined): string[] {
+  return (r.power ?? []).map((p) => `- ${powerSentence(r.name, p, unit)}`);
+}
+
+function powerSentence(response: string, p: PowerResult, unit: string | undefined): string {
+  const u = unit ? ` ${md(unit)}` : "";
+  const needed = p.replicatesNeeded === null ? "no count up to 1000 reaches it" : `${p.replicatesNeeded} replicate${p.replicatesNeeded === 1 ? "" : "s"} reach it`;
+  return `Power of ${md(p.term)} for ${md(response)}: ${formatNumber(p.power, 2)} with ${p.replicates} replicate${p.replicates === 1 ? "" : "s"} to detect ${p.difference}${u} (σ = ${formatNumber(p.sigma, 3)}${u} ${sigmaSourceWords(p.sigmaSource)}); target ${p.target}: ${needed}.`;
 }
 
 /** Markdown for a factor: per response, the mean of each level with its confidence interval. */
@@ -69,8 +116,17 @@ export function factorHover(doc: AnalyzedDocument, factor: string): string {
       parts.push("", "No means yet (no measured runs, or the factor is not in the analysis).");
       continue;
     }
-    parts.push("", "| Level | n | Mean | SD | CI |", "|:--|--:|--:|--:|:--|");
-    for (const m of means) parts.push(`| ${md(m.level)} | ${m.n} | ${formatNumber(m.mean)} | ${formatNumber(m.sd)} | ${interval(m)} |`);
+    const letters = new Map((r.groups ?? []).filter((g) => g.term === factor).map((g) => [g.level, g.letters] as const));
+    if (letters.size > 0) {
+      parts.push("", "| Level | n | Mean | SD | CI | Group |", "|:--|--:|--:|--:|:--|:--|");
+      for (const m of means) parts.push(`| ${md(m.level)} | ${m.n} | ${formatNumber(m.mean)} | ${formatNumber(m.sd)} | ${interval(m)} | ${md(letters.get(m.level) ?? "")} |`);
+      parts.push("", "Levels sharing a letter do not differ (Tukey HSD).");
+    } else {
+      parts.push("", "| Level | n | Mean | SD | CI |", "|:--|--:|--:|--:|:--|");
+      for (const m of means) parts.push(`| ${md(m.level)} | ${m.n} | ${formatNumber(m.mean)} | ${formatNumber(m.sd)} | ${interval(m)} |`);
+    }
+    const best = bestLine(r, factor);
+    if (best) parts.push("", best);
   }
   return parts.join("\n");
 }
@@ -116,14 +172,32 @@ export function covariateHover(doc: AnalyzedDocument, covariate: string): string
   return parts.join("\n");
 }
 
-/** Markdown for `replicates`: power is not computed yet, and the hover says so instead of guessing. */
+/**
+ * Markdown for `replicates`: per response with `plan detect`, the power of each main effect's F test and the
+ * replicates the power target needs (extensions/power.ts); what is missing when power cannot be computed.
+ */
 export function replicatesHover(doc: AnalyzedDocument): string {
-  const n = doc.analysis.design.settings.replicates;
-  return [
-    `**replicates${n !== undefined ? ` ${n}` : ""}**: runs per cell of the design.`,
-    "",
-    "Power and the replicates needed to detect the `detect` difference are not available yet: Trialbook does not compute power so far.",
-  ].join("\n");
+  const { design, responses } = doc.analysis;
+  const n = design.settings.replicates;
+  const lines = [`**replicates${n !== undefined ? ` ${n}` : ""}**: runs per cell of the design.`];
+  const sized = design.responses.filter((x) => x.detect !== undefined);
+  if (sized.length === 0) {
+    lines.push("", "Power is computed for a response with `detect <response> <difference>` in the plan, and `sigma <response> <value>` until runs are measured.");
+    return lines.join("\n");
+  }
+  for (const response of sized) {
+    const r = responses.find((x) => x.name === response.name);
+    const power = r?.power ?? [];
+    if (power.length === 0) {
+      const why = response.sigma === undefined ? ` no error SD yet: add \`sigma ${md(response.name)} <value>\` to the plan` : " see the diagnostics on `detect` for why";
+      lines.push("", `${md(response.name)}: power not computed:${why}.`);
+      continue;
+    }
+    const most = power.some((p) => p.replicatesNeeded === null) ? null : Math.max(...power.map((p) => p.replicatesNeeded!));
+    lines.push("", ...power.map((p) => `- ${powerSentence(response.name, p, response.unit)}`));
+    lines.push("", most === null ? `${md(response.name)}: no number of replicates up to 1000 reaches the target for every term.` : `${md(response.name)}: **${most}** replicate${most === 1 ? "" : "s"} reach the target ${power[0]!.target} for every term.`);
+  }
+  return lines.join("\n");
 }
 
 function interval(m: LevelMean): string {
