@@ -1,3 +1,4 @@
+import { execFileSync } from "node:child_process";
 /**
  * A minimal editor for tests and the benchmark: starts the bundled server (`dist/server.cjs --stdio`) and
  * speaks JSON-RPC to it with vscode-jsonrpc, as VS Code's client would. Waiting is always for a message,
@@ -34,8 +35,8 @@ export async function ensureServerBundle(): Promise<void> {
   }
   const sources = Math.max(newestMtime(resolve("server/src")), newestMtime(resolve("grammar/src")));
   if (bundled > sources) return;
-  const { build } = await import("esbuild");
-  await build({ entryPoints: ["server/src/lsp/main.ts"], outfile: SERVER_BUNDLE, bundle: true, platform: "node", target: "node20", format: "cjs", sourcemap: true, logLevel: "warning" });
+  // The project's own build script, so the bundle gets the same options and plugins as `npm run build`.
+  execFileSync(process.execPath, ["esbuild.mjs"], { stdio: "inherit" });
 }
 
 /** A running server and the client end of its connection. */
