@@ -25,7 +25,14 @@ export class LineIndex {
     const starts: number[] = [0];
     const ends: number[] = [];
     const n = text.length;
-    for (let i = 0; i < n; i++) {
+    if (text.indexOf("\r") < 0) {
+      // Only `\n` breaks (the usual case): the engine's indexOf search is several times faster than a
+      // character loop, which matters for the editor at every edit of a large file.
+      for (let i = text.indexOf("\n"); i >= 0; i = text.indexOf("\n", i + 1)) {
+        ends.push(i);
+        starts.push(i + 1);
+      }
+    } else for (let i = 0; i < n; i++) {
       const c = text.charCodeAt(i);
       if (c === 13 || c === 10) {
         ends.push(i);

@@ -3,7 +3,8 @@ import { centerDecimals } from "../stats/decimal/center-decimals.js";
 import { fitLinearModel } from "../stats/linear-model/fit-linear-model.js";
 import { groupMeans } from "../stats/linear-model/group-means.js";
 import type { LinearModelInput, LinearModelResult, ModelFactor, ModelTerm } from "../stats/linear-model/types.js";
-import { type Design, type DesignTerm, ValueStatus } from "./design.js";
+import { type Design, type DesignRuns, type DesignTerm, ValueStatus } from "./design.js";
+import { covariateText, responseSpan, responseText, runId } from "./design-runs.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
 import type { AdjustedLevelMean, AnovaRow, LevelMean, ResponseAnalysis, RunResidual } from "./results.js";
 
@@ -85,11 +86,11 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     return { result: empty, diagnostics };
   }
 
-  const texts = runs.responseTexts[responseIndex]!;
-  const centred = centerDecimals(selected.map((r) => texts[r]!));
+  // The texts live only for the centring (read from the source, not kept per run by the design).
+  const centred = centerDecimals(selected.map((r) => responseText(runs, responseIndex, r)));
   if (!centred.ok) {
     const r = selected[centred.index]!;
-    diagnostics.push(diagnostic("value-out-of-range", runs.responseSpans[responseIndex]![r] ?? anchors.response, `This value of '${response.name}' cannot be analysed: ${centred.reason}`));
+    diagnostics.push(diagnostic("value-out-of-range", responseSpan(runs, responseIndex, r) ?? anchors.response, `This value of '${response.name}' cannot be analysed: ${centred.reason}`));
     return { result: empty, diagnostics };
   }
   const offset = centred.offset;
@@ -136,7 +137,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   }));
   const covariates = usedCovariates.map((c) => ({
     name: design.covariates[c]!.name,
-    values: Float64Array.from(selected, (r) => Number(runs.covariateTexts[c]![r])),
+    values: Float64Array.from(selected, (r) => Number(covariateText(runs, c, r))),
   }));
 
   const fit = fitLinearModel({ y: centred.values, factors: modelFactors, covariates, terms: modelTerms, ssType: settings.ssType });
@@ -193,7 +194,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
       means,
       effectSizes: fit.effectSizes.map((e) => ({ term: e.source, etaSquared: e.etaSquared, partialEtaSquared: e.partialEtaSquared, omegaSquared: e.omegaSquared })),
       get residuals(): readonly RunResidual[] {
-        residuals ??= runResiduals(selected, runs.ids, fit, offset);
+        residuals ??= runResiduals(selected, runs, fit, offset);
         return residuals;
       },
       slopes: fit.slopes.map((s) => ({ covariate: s.covariate, slope: s.estimate, standardError: s.standardError })),
@@ -217,12 +218,12 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
 }
 
 /** The per-run residual rows of the JSON contract, in run order. */
-function runResiduals(selected: readonly number[], ids: readonly string[], fit: LinearModelResult, offset: number): RunResidual[] {
+function runResiduals(selected: readonly number[], runs: DesignRuns, fit: LinearModelResult, offset: number): RunResidual[] {
   const out = new Array<RunResidual>(selected.length);
   for (let i = 0; i < selected.length; i++) {
     const r = selected[i]!;
     out[i] = {
-      run: ids[r]!,
+      run: runId(runs, r),
       row: r,
       fitted: fit.fitted[i]! + offset,
       residual: fit.residuals[i]!,

@@ -13,6 +13,7 @@ import type {
   TermVariable,
 } from "./design.js";
 import { ValueStatus } from "./design.js";
+import { attachRunTexts, responseSpan, runId, runRowSpan } from "./design-runs.js";
 import { definingRelation } from "../stats/two-level/aliases.js";
 import { wordOf } from "../stats/two-level/words.js";
 import { type Diagnostic, DiagnosticSink, diagnostic } from "./diagnostics.js";
@@ -530,15 +531,25 @@ function readRuns(
   const table = file.runs;
   const count = table?.rows.count ?? 0;
   const levels = factors.map(() => new Int32Array(count).fill(-1));
-  const covariateTexts = covariates.map(() => new Array<string>(count).fill(""));
+  const covariateCells = covariates.map(() => new Int32Array(count).fill(-1));
   const covariateStatus = covariates.map(() => new Uint8Array(count).fill(ValueStatus.Invalid));
-  const responseTexts = responses.map(() => new Array<string>(count).fill(""));
+  const responseCells = responses.map(() => new Int32Array(count).fill(-1));
   const responseStatus = responses.map(() => new Uint8Array(count).fill(ValueStatus.Invalid));
-  const responseSpans = responses.map(() => new Array<Span | undefined>(count).fill(undefined));
   const excluded = new Uint8Array(count);
-  const ids: string[] = new Array<string>(count);
-  const rowSpans: Span[] = new Array<Span>(count);
-  const runs: DesignRuns = { count, ids, rowSpans, levels, covariateTexts, covariateStatus, responseTexts, responseStatus, responseSpans, excluded };
+  const idCells = new Int32Array(count).fill(-1);
+  // Texts and spans are read from the source on demand (design-runs.ts): nothing is allocated per run.
+  const runs = attachRunTexts({
+    count,
+    source: file.source,
+    ...(table ? { rows: table.rows } : {}),
+    idCells,
+    responseCells,
+    covariateCells,
+    levels,
+    covariateStatus,
+    responseStatus,
+    excluded,
+  });
   if (!table) {
     if (factors.length > 0 || responses.length > 0) {
       // No table yet is a normal stage of planning, not a problem worth a squiggle.
@@ -557,13 +568,12 @@ function readRuns(
   const columnCount = table.columns.length;
   const idColumn = roles.findIndex((r) => r.kind === "id");
   const anyExcluded = rows.excluded.size > 0;
-  // A million-row table must not allocate per cell: spans and texts are made only where the contract
-  // (responseTexts, responseSpans, ids, rowSpans) or a diagnostic needs them.
+  // A million-row table must not allocate per cell: spans and texts are made only where a diagnostic
+  // needs them.
   const cellSpan = (cell: number): Span => ({ start: rows.cellStart[cell]!, end: rows.cellEnd[cell]! });
 
   for (let r = 0; r < count; r++) {
-    const rowSpan = { start: rows.rowStart[r]!, end: rows.rowEnd[r]! };
-    rowSpans[r] = rowSpan;
+    const rowSpan = (): Span => runRowSpan(runs, r);
     const mark = anyExcluded ? rows.excluded.get(r) : undefined;
     if (mark) excluded[r] = 1;
     const first = rows.cellOffset[r]!;
@@ -579,15 +589,14 @@ function readRuns(
         const parts: string[] = [];
         if (left !== leftCount) parts.push(`${left} cell${left === 1 ? "" : "s"} before '|' where the header has ${leftCount}`);
         if (right !== rightCount) parts.push(`${right} after '|' where the header has ${rightCount}`);
-        sink.add(diagnostic("column-count", rowSpan, `This row has ${parts.join(" and ")}: add or remove cells so each column has one value (use ? for a value not measured yet).`));
+        sink.add(diagnostic("column-count", rowSpan(), `This row has ${parts.join(" and ")}: add or remove cells so each column has one value (use ? for a value not measured yet).`));
       }
     } else if (n !== columnCount) {
       sink.add(
-        diagnostic("column-count", rowSpan, `This row has ${n} cell${n === 1 ? "" : "s"} where the header has ${columnCount} columns: add or remove cells so each column has one value.`),
+        diagnostic("column-count", rowSpan(), `This row has ${n} cell${n === 1 ? "" : "s"} where the header has ${columnCount} columns: add or remove cells so each column has one value.`),
       );
     }
 
-    let idSeen = false;
     let pendingInRow = false;
     for (let k = 0; k < n; k++) {
       let column: number;
@@ -598,14 +607,13 @@ function readRuns(
       const cell = first + k;
       switch (role.kind) {
         case "id": {
-          const id = cellText(source, rows, cell);
-          ids[r] = id;
-          idSeen = true;
-          const prior = firstIdRow.firstRowOf(id, r, ids);
+          idCells[r] = cell;
+          const prior = firstIdRow.firstRowOf(source, rows, idCells, r);
           if (prior >= 0) {
+            const id = cellText(source, rows, cell);
             sink.add(
               diagnostic("duplicate-run", cellSpan(cell), `Run id '${id}' is already used by an earlier row: give this run a new id.`, [
-                { span: rowSpans[prior]!, message: `first run with id '${id}'` },
+                { span: runRowSpan(runs, prior), message: `first run with id '${id}'` },
               ]),
             );
           }
@@ -625,16 +633,15 @@ function readRuns(
           const text = cellText(source, rows, cell);
           const status = valueStatus(text, rows, cell, `covariate '${covariates[role.index]!.name}'`, sink, true);
           covariateStatus[role.index]![r] = status;
-          if (status === ValueStatus.Measured) covariateTexts[role.index]![r] = text;
+          covariateCells[role.index]![r] = cell;
           break;
         }
         case "response": {
           const text = cellText(source, rows, cell);
           const status = valueStatus(text, rows, cell, `response '${responses[role.index]!.name}'`, sink, false);
           responseStatus[role.index]![r] = status;
-          responseSpans[role.index]![r] = cellSpan(cell);
-          if (status === ValueStatus.Measured) responseTexts[role.index]![r] = text;
-          else if (status === ValueStatus.Pending) pendingInRow = true;
+          responseCells[role.index]![r] = cell;
+          if (status === ValueStatus.Pending) pendingInRow = true;
           break;
         }
         default:
@@ -642,7 +649,6 @@ function readRuns(
       }
     }
 
-    if (!idSeen) ids[r] = String(r + 1);
     if (mark || pendingInRow) reportPendingAndExcluded(r, runs, responses, mark, idColumn >= 0, sink);
   }
   return runs;
@@ -664,11 +670,26 @@ class IdTable {
     this.mask = size - 1;
   }
 
-  /** The first earlier row whose id (in `ids`) equals `id`, or -1 after recording row `r` as its first. */
-  firstRowOf(id: string, r: number, ids: readonly string[]): number {
-    // FNV-1a over the UTF-16 code units (Fowler, Noll & Vo).
+  /**
+   * The first earlier row whose id equals run `r`'s (id cells in `idCells`), or -1 after recording row `r`
+   * as its first. Unquoted ids are hashed and compared in place in the source; quoted ones by their text.
+   */
+  firstRowOf(source: string, rows: RunRows, idCells: Int32Array, r: number): number {
+    const cell = idCells[r]!;
+    const quoted = rows.cellFlags[cell] !== 0;
+    const text = quoted ? cellText(source, rows, cell) : source;
+    const start = quoted ? 0 : rows.cellStart[cell]!;
+    const length = (quoted ? text.length : rows.cellEnd[cell]!) - start;
+    // FNV-1a over the UTF-16 code units (Fowler, Noll & Vo), then MurmurHash3's 32-bit finalizer
+    // (Appleby 2011): ids such as r1..r1000000 differ in few bits, and without the final mixing their low
+    // bits cluster, which makes linear probing walk long runs of slots.
     let h = 0x811c9dc5;
-    for (let i = 0; i < id.length; i++) h = Math.imul(h ^ id.charCodeAt(i), 0x01000193);
+    for (let i = start; i < start + length; i++) h = Math.imul(h ^ text.charCodeAt(i), 0x01000193);
+    h ^= h >>> 16;
+    h = Math.imul(h, 0x85ebca6b);
+    h ^= h >>> 13;
+    h = Math.imul(h, 0xc2b2ae35);
+    h ^= h >>> 16;
     let slot = h & this.mask;
     for (;;) {
       const stored = this.slots[slot]!;
@@ -676,10 +697,22 @@ class IdTable {
         this.slots[slot] = r + 1;
         return -1;
       }
-      if (ids[stored - 1] === id) return stored - 1;
+      const other = idCells[stored - 1]!;
+      if (rows.cellFlags[other] === 0) {
+        const oStart = rows.cellStart[other]!;
+        if (rows.cellEnd[other]! - oStart === length && sameChars(text, start, source, oStart, length)) return stored - 1;
+      } else {
+        const otherText = cellText(source, rows, other);
+        if (otherText.length === length && sameChars(text, start, otherText, 0, length)) return stored - 1;
+      }
       slot = (slot + 1) & this.mask;
     }
   }
+}
+
+function sameChars(a: string, aStart: number, b: string, bStart: number, length: number): boolean {
+  for (let i = 0; i < length; i++) if (a.charCodeAt(aStart + i) !== b.charCodeAt(bStart + i)) return false;
+  return true;
 }
 
 /** Largest number of levels looked up by comparing characters in place (beyond it, a map of names). */
@@ -806,7 +839,7 @@ function reportPendingAndExcluded(
   hasIds: boolean,
   sink: DiagnosticSink,
 ): void {
-  const label = hasIds ? `Run ${runs.ids[r]}` : `Run ${r + 1}`;
+  const label = hasIds ? `Run ${runId(runs, r)}` : `Run ${r + 1}`;
   if (mark) {
     sink.add(
       diagnostic(
@@ -824,7 +857,7 @@ function reportPendingAndExcluded(
   const pending: string[] = [];
   responses.forEach((resp, k) => {
     if (runs.responseStatus[k]![r] === ValueStatus.Pending) {
-      const span = runs.responseSpans[k]![r]!;
+      const span = responseSpan(runs, k, r)!;
       if (start < 0) start = span.start;
       end = span.end;
       pending.push(resp.name);
@@ -870,12 +903,12 @@ function checkCells(design: Design, file: TrialFile, sink: DiagnosticSink): void
       const missing = replicates - planned[c]!;
       const related = [];
       for (let r = 0; r < runs.count; r++) {
-        if (cellOfRun[r] === c && !runs.excluded[r] && r !== firstRun[c]) related.push({ span: runs.rowSpans[r]!, message: `another run of ${describeCell(design, c)}` });
+        if (cellOfRun[r] === c && !runs.excluded[r] && r !== firstRun[c]) related.push({ span: runRowSpan(runs, r), message: `another run of ${describeCell(design, c)}` });
       }
       sink.add(
         diagnostic(
           "missing-replicate",
-          runs.rowSpans[firstRun[c]!]!,
+          runRowSpan(runs, firstRun[c]!),
           `${describeCell(design, c)} has ${planned[c]} of ${replicates} replicates: add ${missing} run${missing === 1 ? "" : "s"} (a quick fix adds pending rows).`,
           related,
         ),
@@ -1000,7 +1033,7 @@ function checkSubjectConditions(design: Design, sink: DiagnosticSink): void {
     sink.add(
       diagnostic(
         "missing-condition",
-        runs.rowSpans[first]!,
+        runRowSpan(runs, first),
         `Subject '${name}' has no run with ${missing.join("; ")}${more > 0 ? ` and ${more} more` : ""}: every subject needs every condition, or it is left out of the repeated-measures analysis. Add the runs (use ? for values not measured yet).`,
       ),
     );

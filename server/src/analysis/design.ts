@@ -1,4 +1,4 @@
-import type { FactorRole, Goal, Span } from "../../../grammar/src/ast.js";
+import type { FactorRole, Goal, RunRows, Span } from "../../../grammar/src/ast.js";
 
 /** A factor level after name resolution. */
 export interface DesignLevel {
@@ -74,9 +74,24 @@ export const enum ValueStatus {
 /**
  * The runs of a design, column-wise: index `i` is the i-th row of the runs table (run order).
  * Texts are kept exactly as written so the engine can centre them in decimal.
+ *
+ * Stored as typed arrays of cell indices into the parsed table (`rows`, `source`). The per-run string
+ * and span arrays (`ids`, `rowSpans`, `covariateTexts`, `responseTexts`, `responseSpans`) are built on
+ * first access; code that reads one run should use the accessors of design-runs.ts instead
+ * (`runId`, `runRowSpan`, `responseText`, `responseSpan`, `covariateText`), which allocate nothing else.
  */
 export interface DesignRuns {
   readonly count: number;
+  /** The document text the cell indices below point into. */
+  readonly source: string;
+  /** The parsed rows of the runs table; undefined when the file has none (then `count` is 0). */
+  readonly rows?: RunRows;
+  /** Global cell index (into `rows`) of each run's id cell; -1 where the row has none. */
+  readonly idCells: Int32Array;
+  /** Per response: global cell index of the value cell per run; -1 where the row has no such cell. */
+  readonly responseCells: readonly Int32Array[];
+  /** Per covariate: global cell index of the value cell per run; -1 where the row has no such cell. */
+  readonly covariateCells: readonly Int32Array[];
   readonly ids: readonly string[];
   /** Span of each run's row in the document. */
   readonly rowSpans: readonly Span[];

@@ -24,7 +24,24 @@ export interface AnalyzedDocument {
 
 /** Parses and analyses a text: what the store caches, and what in-process tests call directly. */
 export function analyzeText(uri: string, version: number, text: string, defaults: AnalysisSettings = {}): AnalyzedDocument {
-  return { uri, version, text, lineIndex: new LineIndex(text), analysis: analyzeParsed(parseTrial(text), defaults) };
+  return analyzedDocument(uri, version, text, analyzeParsed(parseTrial(text), defaults));
+}
+
+/**
+ * An `AnalyzedDocument` whose `lineIndex` is built on first use: a version that is replaced before any
+ * diagnostic or request needs a position never pays for indexing every line of a large file.
+ */
+function analyzedDocument(uri: string, version: number, text: string, analysis: DocumentAnalysis): AnalyzedDocument {
+  let lineIndex: LineIndex | undefined;
+  return {
+    uri,
+    version,
+    text,
+    get lineIndex(): LineIndex {
+      return (lineIndex ??= new LineIndex(text));
+    },
+    analysis,
+  };
 }
 
 /** Where the store sends diagnostics and log lines; the server passes the connection's. */
@@ -140,7 +157,7 @@ export class DocumentStore {
           const analyzed =
             again && again.version === version
               ? again
-              : { uri, version, text, lineIndex: new LineIndex(text), analysis: analyzeParsed(file, toAnalysisDefaults(this.settings())) };
+              : analyzedDocument(uri, version, text, analyzeParsed(file, toAnalysisDefaults(this.settings())));
           if (analyzed !== again) this.stats.analyses++;
           if (!this.isCurrent(uri, version)) {
             this.stats.abandoned++;
@@ -159,7 +176,8 @@ export class DocumentStore {
   }
 
   private publish(doc: AnalyzedDocument): void {
-    this.sinks.publish(doc.uri, doc.version, toLspDiagnostics(doc.analysis.diagnostics, doc.lineIndex, doc.uri));
+    const diagnostics = doc.analysis.diagnostics;
+    this.sinks.publish(doc.uri, doc.version, diagnostics.length === 0 ? [] : toLspDiagnostics(diagnostics, doc.lineIndex, doc.uri));
   }
 
   private close(uri: string): void {

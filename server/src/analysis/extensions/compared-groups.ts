@@ -39,12 +39,13 @@ export function groupsOf(context: ResponseContext, factors: readonly number[]): 
   if (parts.some((p) => p === undefined)) return undefined;
   const sizes = parts.map((p) => p!.levels.length);
   const count = sizes.reduce((a, b) => a * b, 1);
+  // Mixed-radix group codes, one factor at a time over all observations (no closure per observation).
   const codes = new Int32Array(context.y.length);
-  for (let i = 0; i < codes.length; i++) {
-    let code = 0;
-    parts.forEach((p, j) => (code = code * sizes[j]! + p!.codes[i]!));
-    codes[i] = code;
-  }
+  parts.forEach((p, j) => {
+    const size = sizes[j]!;
+    const own = p!.codes;
+    for (let i = 0; i < codes.length; i++) codes[i] = codes[i]! * size + own[i]!;
+  });
   const labels: string[] = [];
   const declared: number[] = [];
   for (let c = 0; c < count; c++) {

@@ -20,6 +20,7 @@
 
 import type { ResponseExtension } from "../analyze-document.js";
 import { ValueStatus } from "../design.js";
+import { responseSpan, responseText, runId } from "../design-runs.js";
 import { type Diagnostic, diagnostic } from "../diagnostics.js";
 import type { AlternativeTests, ModelChecks } from "../results.js";
 import { bartlettTest } from "../../stats/checks/bartlett.js";
@@ -109,14 +110,14 @@ export const modelChecksExtension: ResponseExtension = (context) => {
     // Outliers: Bonferroni bound on externally studentized residuals.
     const flags = bonferroniOutliers(fit.studentized, fit.residual.df, alpha);
     if (flags.length > 0) {
-      checks.outliers = flags.map((f) => ({ run: runs.length ? design.runs.ids[runs[f.index]!]! : "", row: runs[f.index]!, studentized: f.studentized, p: f.p }));
+      checks.outliers = flags.map((f) => ({ run: runs.length ? runId(design.runs, runs[f.index]!) : "", row: runs[f.index]!, studentized: f.studentized, p: f.p }));
       for (const f of flags) {
         const row = runs[f.index]!;
         diagnostics.push(
           diagnostic(
             "outlier",
-            design.runs.responseSpans[context.responseIndex]![row] ?? anchor,
-            `Run ${design.runs.ids[row]}'s '${response.name}' lies far from its fitted value (studentized residual ${formatNumber(f.studentized, 3)}, Bonferroni p = ${formatP(f.p)}). One such run can shift means and inflate the error: check the record and the run; if it is a mistake correct it, if the run went wrong mark it excluded "reason"; otherwise keep it and report it.`,
+            responseSpan(design.runs, context.responseIndex, row) ?? anchor,
+            `Run ${runId(design.runs, row)}'s '${response.name}' lies far from its fitted value (studentized residual ${formatNumber(f.studentized, 3)}, Bonferroni p = ${formatP(f.p)}). One such run can shift means and inflate the error: check the record and the run; if it is a mistake correct it, if the run went wrong mark it excluded "reason"; otherwise keep it and report it.`,
           ),
         );
       }
@@ -129,7 +130,7 @@ export const modelChecksExtension: ResponseExtension = (context) => {
     const status = design.runs.responseStatus[context.responseIndex]!;
     for (let r = 0; r < design.runs.count && count < MAX_SPEC_DIAGNOSTICS; r++) {
       if (status[r] !== ValueStatus.Measured) continue;
-      const value = Number(design.runs.responseTexts[context.responseIndex]![r]);
+      const value = Number(responseText(design.runs, context.responseIndex, r));
       const low = response.specLower !== undefined && value < response.specLower;
       const high = response.specUpper !== undefined && value > response.specUpper;
       if (!low && !high) continue;
@@ -137,8 +138,8 @@ export const modelChecksExtension: ResponseExtension = (context) => {
       diagnostics.push(
         diagnostic(
           "out-of-spec",
-          design.runs.responseSpans[context.responseIndex]![r] ?? anchor,
-          `Run ${design.runs.ids[r]}: ${response.name} = ${design.runs.responseTexts[context.responseIndex]![r]} is ${low ? `below the lower spec limit ${response.specLower}` : `above the upper spec limit ${response.specUpper}`}${design.runs.excluded[r] ? " (the run is excluded from the analysis)" : ""}.`,
+          responseSpan(design.runs, context.responseIndex, r) ?? anchor,
+          `Run ${runId(design.runs, r)}: ${response.name} = ${responseText(design.runs, context.responseIndex, r)} is ${low ? `below the lower spec limit ${response.specLower}` : `above the upper spec limit ${response.specUpper}`}${design.runs.excluded[r] ? " (the run is excluded from the analysis)" : ""}.`,
         ),
       );
     }

@@ -59,13 +59,37 @@ function pooledProblem(pooled: PooledVariance): string | null {
 
 const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
+/**
+ * Why `method` cannot compare these groups, or null when it can: the same checks the method itself makes
+ * first, without computing any distribution. Callers that defer the comparisons (the analysis computes
+ * them when a result is read) use it to report a skipped family at once. `control` is for Dunnett.
+ */
+export function comparisonProblem(method: ComparisonMethod, groups: readonly GroupSummary[], pooled: PooledVariance, control?: number): string | null {
+  const k = groups.filter((g) => g.n > 0).length;
+  switch (method) {
+    case "games-howell":
+      if (k < 2) return "fewer than two levels have measured runs";
+      if (groups.some((g) => g.n > 0 && (g.n < 2 || !(g.variance! > 0)))) return "a level has a single run or no spread, so its own variance is unknown";
+      return null;
+    case "dunnett": {
+      const problem = pooledProblem(pooled);
+      if (problem) return problem;
+      const g0 = control === undefined ? undefined : groups[control];
+      if (!g0 || g0.n === 0) return "the control level has no measured runs";
+      if (!groups.some((g, i) => i !== control && g.n > 0)) return "no other level has measured runs";
+      return null;
+    }
+    default:
+      return pooledProblem(pooled) ?? (k < 2 ? "fewer than two levels have measured runs" : null);
+  }
+}
+
 /** Tukey HSD (Tukey-Kramer for unequal n) at the given confidence. */
 export function tukeyHsd(groups: readonly GroupSummary[], pooled: PooledVariance, confidence: number): ComparisonOutcome {
-  const problem = pooledProblem(pooled);
+  const problem = comparisonProblem("tukey", groups, pooled);
   if (problem) return { ok: false, reason: problem };
   const pairs = allPairs(groups);
   const k = groups.filter((g) => g.n > 0).length;
-  if (k < 2) return { ok: false, reason: "fewer than two levels have measured runs" };
   const critical = studentizedRangeQuantile(confidence, k, pooled.df);
   return {
     ok: true,
@@ -92,10 +116,9 @@ function pooledT(groups: readonly GroupSummary[], pooled: PooledVariance) {
  * Holm-adjusted. Intervals: per-comparison t for LSD, Bonferroni t quantile 1 - α/(2m) for both others.
  */
 export function pairwiseT(groups: readonly GroupSummary[], pooled: PooledVariance, confidence: number, adjust: "lsd" | "bonferroni" | "holm"): ComparisonOutcome {
-  const problem = pooledProblem(pooled);
+  const problem = comparisonProblem(adjust, groups, pooled);
   if (problem) return { ok: false, reason: problem };
   const raw = pooledT(groups, pooled);
-  if (raw.length === 0) return { ok: false, reason: "fewer than two levels have measured runs" };
   const m = raw.length;
   const alpha = 1 - confidence;
   const critical = tQuantile(1 - (adjust === "lsd" ? alpha / 2 : alpha / (2 * m)), pooled.df);
@@ -108,10 +131,10 @@ export function pairwiseT(groups: readonly GroupSummary[], pooled: PooledVarianc
 
 /** Games-Howell: needs every compared group to have at least two runs and a positive variance. */
 export function gamesHowell(groups: readonly GroupSummary[], confidence: number): ComparisonOutcome {
+  const problem = comparisonProblem("games-howell", groups, { ms: 1, df: 1 });
+  if (problem) return { ok: false, reason: problem };
   const pairs = allPairs(groups);
   const k = groups.filter((g) => g.n > 0).length;
-  if (k < 2) return { ok: false, reason: "fewer than two levels have measured runs" };
-  if (groups.some((g) => g.n > 0 && (g.n < 2 || !(g.variance! > 0)))) return { ok: false, reason: "a level has a single run or no spread, so its own variance is unknown" };
   return {
     ok: true,
     pairs: pairs.map(([a, b]) => {
@@ -131,12 +154,10 @@ export function gamesHowell(groups: readonly GroupSummary[], confidence: number)
 
 /** Dunnett's two-sided comparisons of every other level with `control`. */
 export function dunnett(groups: readonly GroupSummary[], control: number, pooled: PooledVariance, confidence: number): ComparisonOutcome {
-  const problem = pooledProblem(pooled);
+  const problem = comparisonProblem("dunnett", groups, pooled, control);
   if (problem) return { ok: false, reason: problem };
-  const g0 = groups[control];
-  if (!g0 || g0.n === 0) return { ok: false, reason: "the control level has no measured runs" };
+  const g0 = groups[control]!;
   const others = groups.flatMap((g, i) => (i !== control && g.n > 0 ? [i] : []));
-  if (others.length === 0) return { ok: false, reason: "no other level has measured runs" };
   const lambdas = others.map((i) => Math.sqrt(groups[i]!.n / (groups[i]!.n + g0.n)));
   const critical = dunnettTwoSidedQuantile(confidence, lambdas, pooled.df);
   return {
