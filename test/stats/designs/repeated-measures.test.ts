@@ -8,7 +8,7 @@
 import assert from "node:assert/strict";
 import { readFileSync } from "node:fs";
 import path from "node:path";
-import { chiSquareUpperTail } from "../../../server/src/stats/repeated-measures/chi-square.js";
+import { chiSquareUpperTail } from "../../../server/src/stats/distributions/chi-square-distribution.js";
 import { repeatedMeasuresAnova, type RepeatedMeasuresInput, type StratumRow, type TermSphericity } from "../../../server/src/stats/repeated-measures/strata.js";
 import { assertClose } from "../linear-model/helpers.js";
 

@@ -16,7 +16,7 @@
  * when ε̂ ≤ 0.75, the Huynh–Feldt correction when ε̂ > 0.75, where Greenhouse–Geisser is conservative.
  */
 
-import { chiSquareUpperTail } from "./chi-square.js";
+import { chiSquareUpperTail } from "../distributions/chi-square-distribution.js";
 import { determinant, type Matrix } from "./contrasts.js";
 
 export interface Sphericity {
