@@ -16,8 +16,10 @@ import { logGamma } from "../special/log-gamma.js";
 
 const MASS_TOLERANCE = 1e-15;
 const MAX_TERMS = 200000;
+/** The largest λ/2 whose Poisson mass within ±9 standard deviations (9√(λ/2) terms) fits in MAX_TERMS. */
+const MAX_HALF_NONCENTRALITY = 2e8;
 
-/** Both tails of the noncentral F at f. NaN for invalid arguments. */
+/** Both tails of the noncentral F at f. NaN for invalid arguments and for λ above 4e8 (not summable here). */
 export function noncentralFPair(f: number, df1: number, df2: number, noncentrality: number): { lower: number; upper: number } {
   if (!(df1 > 0) || !(df2 > 0) || !Number.isFinite(df1) || !Number.isFinite(df2) || !(noncentrality >= 0) || !Number.isFinite(noncentrality) || Number.isNaN(f)) {
     return { lower: NaN, upper: NaN };
@@ -28,6 +30,9 @@ export function noncentralFPair(f: number, df1: number, df2: number, noncentrali
   const x = r / (1 + r);
   const y = 1 / (1 + r);
   const half = noncentrality / 2;
+  // Beyond this the mode-outward sum needs more than MAX_TERMS terms, and for huge λ `j - 1 === j`, so the
+  // downward loop would never end (found by the hardening tests: `plan detect y 1234…890`, 40 digits).
+  if (half > MAX_HALF_NONCENTRALITY) return { lower: NaN, upper: NaN };
   const mode = Math.floor(half);
   const logWeight = (j: number) => (half === 0 ? (j === 0 ? 0 : -Infinity) : -half + j * Math.log(half) - logGamma(j + 1));
   let lower = 0;
