@@ -125,7 +125,7 @@ describe("hardening: nothing injected", function () {
   // becomes a link in renderers that do not sanitize, and `*` or `_` in names turn into emphasis.
   // Pending: the report writer (server/src/report/markdown-writer.ts, another engineer's file) should
   // start each plot as an HTML block, e.g. wrapped in `<div>` … `</div>` on lines of their own.
-  it.skip("Markdown plots are HTML blocks, so user text inside an SVG is not parsed as Markdown (waits for markdown-writer.ts)", async () => {
+  it("Markdown plots are HTML blocks, so user text inside an SVG is not parsed as Markdown", async () => {
     const analysis = analyzeDocument(hostileDocument("[click](javascript:alert(4))"));
     const md = await renderReportMarkdown(analysis);
     for (const line of md.split("\n").filter((l) => l.includes("<svg"))) {

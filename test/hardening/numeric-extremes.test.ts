@@ -42,13 +42,7 @@ const UNREPRESENTABLE = new Set(["1e400", "-1e400", "1.8e308", "1e-400", "1e9999
  */
 const OVERFLOW = "the fit squares values near the largest double: the ANOVA returns NaN/Infinity sums of squares instead of a value-out-of-range diagnostic (analyze-response.ts / fit-linear-model.ts)";
 const UNDERFLOW = "a value that underflows to 0 is taken as 0 with no value-out-of-range diagnostic (build-design.ts reads numeric levels, spec limits and detect without the range check responses get)";
-const KNOWN_GAPS = new Map<string, string>([
-  ["response 1e308", OVERFLOW],
-  ["response -1e308", OVERFLOW],
-  ["response 1.7976931348623157e308", OVERFLOW],
-  ["covariate 1.7976931348623157e308", OVERFLOW],
-  ...(["level", "spec", "detect"] as const).flatMap((slot) => ["1e-400", "1e-99999999999", "0." + "0".repeat(400) + "1"].map((v): [string, string] => [`${slot} ${v}`, UNDERFLOW])),
-]);
+const KNOWN_GAPS = new Map<string, string>([]);
 
 describe("hardening: numeric extremes", function () {
   this.timeout(30_000);

@@ -94,6 +94,14 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     return { result: empty, diagnostics };
   }
   const offset = centred.offset;
+  // Squares of the centred values must stay finite for the sums of squares: beyond about 1e150 apart they
+  // overflow a double, so such data get a diagnostic instead of an Infinity in the table.
+  const tooWide = largestMagnitudeIndex(centred.values);
+  if (tooWide >= 0) {
+    const r = selected[tooWide]!;
+    diagnostics.push(diagnostic("value-out-of-range", responseSpan(runs, responseIndex, r) ?? anchors.response, `The values of '${response.name}' lie too far apart (beyond about 1e150) for their squares to be computed: check this value or change the response's unit.`));
+    return { result: empty, diagnostics };
+  }
 
   // Level codes are compacted to the levels that occur among the selected runs, so that a declared but
   // unused level does not show up as an aliased column.
@@ -135,6 +143,14 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     factors: t.variables.flatMap((v) => (v.kind === "factor" ? [factorSlot.get(v.index)!] : [])),
     covariates: t.variables.flatMap((v) => (v.kind === "covariate" ? [covariateSlot.get(v.index)!] : [])),
   }));
+  for (const c of usedCovariates) {
+    const values = Float64Array.from(selected, (r) => Number(covariateText(runs, c, r)));
+    const wide = largestMagnitudeIndex(values);
+    if (wide >= 0) {
+      diagnostics.push(diagnostic("value-out-of-range", anchors.response, `Covariate '${design.covariates[c]!.name}' has a value beyond about 1e150 (run ${selected[wide]! + 1}), whose square cannot be computed: change the covariate's unit.`));
+      return { result: empty, diagnostics };
+    }
+  }
   const covariates = usedCovariates.map((c) => ({
     name: design.covariates[c]!.name,
     values: Float64Array.from(selected, (r) => Number(covariateText(runs, c, r))),
@@ -313,4 +329,13 @@ function adjustedMeans(
     }
   }
   return out;
+}
+
+/** Magnitude beyond which a value's square (and sums of squares) would overflow a double. */
+const SQUARE_LIMIT = 1e150;
+
+/** Index of the first value whose magnitude is beyond SQUARE_LIMIT, or -1. */
+function largestMagnitudeIndex(values: Float64Array): number {
+  for (let i = 0; i < values.length; i++) if (!(Math.abs(values[i]!) <= SQUARE_LIMIT)) return i;
+  return -1;
 }

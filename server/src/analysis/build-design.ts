@@ -44,6 +44,7 @@ export interface BuiltDesign {
 export function buildDesign(file: TrialFile, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}): BuiltDesign {
   const sink = new DiagnosticSink();
   for (const p of file.problems) sink.add(diagnostic("syntax", p.span, p.message));
+  reportUnderflow(file, sink);
 
   const factors = resolveFactors(file, sink);
   const covariates = resolveCovariates(file, factors, sink);
@@ -1080,4 +1081,28 @@ function listOf(names: readonly string[]): string {
   if (names.length === 0) return "";
   const shown = names.slice(0, 12).join(", ");
   return ` (declared: ${shown}${names.length > 12 ? ", ..." : ""})`;
+}
+
+/**
+ * Numbers in declarations and plan settings (numeric levels, spec limits, targets, plan values) that are
+ * nonzero as written but round to zero as a double (e.g. 1e-400): reported, since they would silently act
+ * as 0. (Too large numbers are already reported by the parser; cells are checked in readRuns.)
+ */
+function reportUnderflow(file: TrialFile, sink: DiagnosticSink): void {
+  const numbers: DecimalNumber[] = [];
+  for (const f of file.factors) for (const l of f.levels) if (l.number) numbers.push(l.number);
+  for (const r of file.responses) {
+    if (r.spec?.lower) numbers.push(r.spec.lower);
+    if (r.spec?.upper) numbers.push(r.spec.upper);
+    if (r.goal?.kind === "target" && r.goal.target) numbers.push(r.goal.target);
+  }
+  for (const setting of file.plan?.settings ?? []) {
+    if ("value" in setting && setting.value && typeof setting.value === "object" && "value" in setting.value && typeof setting.value.value === "number") numbers.push(setting.value as DecimalNumber);
+    if (setting.kind === "detect" && setting.difference) numbers.push(setting.difference);
+  }
+  for (const n of numbers) {
+    if (n.value === 0 && /[1-9]/.test(n.text.split(/[eE]/)[0]!)) {
+      sink.add(diagnostic("value-out-of-range", n.span, `${n.text} is too small to represent: nonzero as written, it is below the smallest positive double (about 4.9e-324) and would act as 0. Write it in another unit.`));
+    }
+  }
 }

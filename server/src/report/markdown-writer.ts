@@ -33,7 +33,9 @@ function blockMarkdown(block: ReportBlock, k: number): string {
     }
     case "plot":
       // An HTML block must not contain blank lines, or Markdown ends it early; Vega's SVG has none.
-      return `### ${escapeMarkdown(block.title)}\n\n${uniqueSvgIds(block.svg, `p${k}-`).replace(/\n\s*\n/g, "\n")}\n\n*${escapeMarkdown(block.caption)}*`;
+      // Wrapped in a <div> on the same line, the plot is a CommonMark HTML block (type 6): text inside the
+      // SVG (level names) is never read as Markdown, so `[x](javascript:...)` cannot become a link.
+      return `### ${escapeMarkdown(block.title)}\n\n<div>${uniqueSvgIds(block.svg, `p${k}-`).replace(/\n\s*\n/g, "\n")}</div>\n\n*${escapeMarkdown(block.caption)}*`;
     case "note":
       return `*${escapeMarkdown(block.text)}*`;
     case "caution":
