@@ -43,7 +43,7 @@ export const modelChecksExtension: ResponseExtension = (context) => {
   const anchor = context.anchors.response;
   const alpha = context.result.alpha;
   const checks: { -readonly [K in keyof ModelChecks]: ModelChecks[K] } = {};
-  const skipped = (what: string, why: string) => diagnostics.push(diagnostic("check-skipped", anchor, `${what} of '${response.name}' is not computed: ${why}.`));
+  const skipped = (what: string, why: string) => diagnostics.push(diagnostic("check-skipped", anchor, `${what} of '${response.name}': not computed, because ${why}.`));
 
   // Variance checks over the cells of the fixed factors in the model.
   const fixed = fixedFactorsInModel(context);
