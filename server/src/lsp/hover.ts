@@ -7,6 +7,7 @@ import { symbolAt } from "../analysis/symbol-at.js";
 import type { LevelMean, PowerResult, ResponseAnalysis } from "../analysis/results.js";
 import { sigmaSourceWords } from "../text/comparisons-text.js";
 import { formatF, formatNumber, formatP, formatStatistic, MISSING } from "../text/format-number.js";
+import { designsText } from "../text/designs-text.js";
 import { termRows, termVerdict } from "../text/verdicts.js";
 import { type Hover, MarkupKind, type Position } from "vscode-languageserver";
 import { positionToOffset, spanToRange } from "./convert.js";
@@ -49,10 +50,12 @@ export function responseHover(doc: AnalyzedDocument, name: string): string {
     if (power.length > 0) lines.push("", ...power);
     return lines.join("\n");
   }
-  lines.push("| Source | df | SS | MS | F | p |", "|:--|--:|--:|--:|--:|--:|");
+  // Designs with error strata test terms against other rows: the column says which.
+  const strata = r.anova.some((row) => row.error !== undefined);
+  lines.push(`| Source | df | SS | MS | F | p |${strata ? " Tested against |" : ""}`, `|:--|--:|--:|--:|--:|--:|${strata ? ":--|" : ""}`);
   for (const row of r.anova) {
     lines.push(
-      `| ${md(row.source)} | ${row.df} | ${formatStatistic(row.ss)} | ${row.ms === undefined ? "" : formatStatistic(row.ms)} | ${row.f === undefined ? "" : formatF(row.f)} | ${row.p === undefined ? "" : formatP(row.p)} |`,
+      `| ${md(row.source)} | ${row.df} | ${formatStatistic(row.ss)} | ${row.ms === undefined ? "" : formatStatistic(row.ms)} | ${row.f === undefined ? "" : formatF(row.f)} | ${row.p === undefined ? "" : formatP(row.p)} |${strata ? ` ${md(row.error ?? "")} |` : ""}`,
     );
   }
   lines.push("", `R² = ${formatNumber(r.rSquared)} · residual SD = ${formatNumber(r.residualSd)}${unit && r.residualSd !== null ? ` ${md(unit)}` : ""}`);
@@ -64,6 +67,8 @@ export function responseHover(doc: AnalyzedDocument, name: string): string {
     const best = bestLine(r, term);
     if (best) lines.push("", best);
   }
+  const design = designsText(r).filter((l) => l.trim() !== "").map((l) => l.replace(/^  /, ""));
+  if (design.length > 0) lines.push("", "```text", ...design, "```");
   const checks = checksLine(r);
   if (checks) lines.push("", checks);
   const power = powerLines(r, unit);
