@@ -24,21 +24,8 @@ interface ErrorContext {
   expect: string;
 }
 
-const TOP_LEVEL_LIST = "trial, owner, date, conjecture, conclusion, response, factor, covariate, plan or runs";
-const PLAN_SETTING_WORDS = new Set([
-  "replicates",
-  "alpha",
-  "confidence",
-  "power",
-  "seed",
-  "sums-of-squares",
-  "model",
-  "detect",
-  "pairwise",
-  "fraction",
-  "centre-points",
-  "sigma",
-]);
+const TOP_LEVEL_LIST = `${T.TOP_LEVEL_KEYWORDS.slice(0, -1).join(", ")} or ${T.TOP_LEVEL_KEYWORDS[T.TOP_LEVEL_KEYWORDS.length - 1]}`;
+const PLAN_SETTING_WORDS: ReadonlySet<string> = new Set(T.PLAN_SETTING_KEYWORDS);
 const OPTION_WORDS = new Set(["levels", "unit", "as", "control", "within", "maximize", "minimize", "target", "spec"]);
 
 function quoteImage(token: IToken): string {

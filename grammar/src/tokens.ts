@@ -25,6 +25,22 @@ export const TOP_LEVEL_KEYWORDS = [
   "runs",
 ] as const;
 
+/** Keywords that start a setting inside `plan`. */
+export const PLAN_SETTING_KEYWORDS = [
+  "replicates",
+  "alpha",
+  "confidence",
+  "power",
+  "seed",
+  "sums-of-squares",
+  "model",
+  "detect",
+  "pairwise",
+  "fraction",
+  "centre-points",
+  "sigma",
+] as const;
+
 /** Contextual keywords: keywords only where the grammar expects them, names elsewhere. */
 export const CONTEXTUAL_KEYWORDS = [
   "unit",
@@ -39,21 +55,10 @@ export const CONTEXTUAL_KEYWORDS = [
   "subject",
   "control",
   "within",
-  "replicates",
-  "alpha",
-  "confidence",
-  "power",
-  "seed",
-  "sums-of-squares",
-  "model",
-  "detect",
-  "pairwise",
-  "fraction",
-  "centre-points",
   "x",
   "to",
   "excluded",
-  "sigma",
+  ...PLAN_SETTING_KEYWORDS,
 ] as const;
 
 /** Every keyword of the language: the top-level ones followed by the contextual ones. */

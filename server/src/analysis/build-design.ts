@@ -551,12 +551,8 @@ function readRuns(
     responseStatus,
     excluded,
   });
-  if (!table) {
-    if (factors.length > 0 || responses.length > 0) {
-      // No table yet is a normal stage of planning, not a problem worth a squiggle.
-    }
-    return runs;
-  }
+  // No table yet is a normal stage of planning, not a problem worth a diagnostic.
+  if (!table) return runs;
 
   const roles = mapColumns(table.columns, table.responseStart, factors, covariates, responses, sink);
   const source = file.source;

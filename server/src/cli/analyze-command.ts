@@ -18,9 +18,6 @@ export const ANALYZE_USAGE = `Usage: trialbook analyze FILE... [--format text|js
   Prints the ANOVA table, R², residual SD and means of every response (JSON: one file at a time).
   Flags override the file's plan for this run only. Exit code 1 when a file has errors, 0 otherwise.`;
 
-/** Re-exported for modules that imported it from here before it moved to text/caution.ts. */
-export { CAUTION };
-
 /** `trialbook analyze`: results of one file as text or as the JSON contract. */
 export async function analyzeCommand(args: readonly string[], io: CliIo): Promise<number> {
   const { values, positionals } = parseArguments(args, {

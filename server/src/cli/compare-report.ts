@@ -8,7 +8,7 @@ import type { AnalysisSettings } from "../analysis/build-design.js";
 import { type AnalysisComparison, compareAnalyses, type MeanChange, type ResponseComparison, type RunChange, type TermChange } from "../analysis/compare-analyses.js";
 import { alignColumns } from "../text/align-columns.js";
 import { formatNumber, formatP, MISSING } from "../text/format-number.js";
-import { CAUTION } from "./analyze-command.js";
+import { CAUTION } from "../text/caution.js";
 import { type TerminalStyle, terminalStyle } from "./terminal-style.js";
 
 /** How the two revisions are named in the output. */

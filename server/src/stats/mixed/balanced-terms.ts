@@ -233,7 +233,8 @@ function hasNestingCycle(factors: readonly BalancedFactor[], f: number): boolean
   return true;
 }
 
-function popcount(v: number): number {
+/** Number of set bits of a term mask (how many factors a term involves). */
+export function popcount(v: number): number {
   let c = 0;
   while (v) {
     v &= v - 1;

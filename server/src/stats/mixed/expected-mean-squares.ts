@@ -24,7 +24,7 @@
  */
 
 import { fUpperTail } from "../distributions/f-distribution.js";
-import type { BalancedAnova, BalancedFactor, BalancedTerm } from "./balanced-terms.js";
+import { type BalancedAnova, type BalancedFactor, type BalancedTerm, popcount } from "./balanced-terms.js";
 
 /** One part of an expected mean square: the variance of a random term (or the residual) times a coefficient. */
 export interface EmsPart {
@@ -100,15 +100,6 @@ export function expectedMeanSquares(factors: readonly BalancedFactor[], anova: B
     });
     return { parts, fixedPart: !s.random };
   });
-}
-
-function popcount(v: number): number {
-  let c = 0;
-  while (v) {
-    v &= v - 1;
-    c++;
-  }
-  return c;
 }
 
 /** Builds the denominator of term `s` from the EMS table (see the module comment). */

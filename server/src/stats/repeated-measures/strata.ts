@@ -13,6 +13,7 @@
  * Between-subject terms use sequential (Type I) sums of squares; with equal group sizes every type agrees.
  */
 
+import type { AnovaTermRow } from "../linear-model/types.js";
 import { fUpperTail } from "../distributions/f-distribution.js";
 import { fitLinearModel } from "../linear-model/fit-linear-model.js";
 import type { ModelFactor, ModelTerm } from "../linear-model/types.js";
@@ -39,13 +40,7 @@ export interface RepeatedMeasuresInput {
 }
 
 /** One row of a stratified table; `error` names the row whose mean square is the F denominator. */
-export interface StratumRow {
-  readonly source: string;
-  readonly df: number;
-  readonly ss: number;
-  readonly ms: number | null;
-  readonly f: number | null;
-  readonly p: number | null;
+export interface StratumRow extends AnovaTermRow {
   /** Source of the error row this term is tested against; absent on error rows. */
   readonly error?: string;
   /** True for the error row of a stratum. */
