@@ -30,6 +30,7 @@
  * `?` factor cell (every run needs a level) and a value spanning several lines or holding another
  * control character (a `.trial` cell is one line).
  */
+import { ALL_KEYWORDS } from "../../../grammar/src/tokens.js";
 import { readCsv } from "./csv.js";
 import { alignColumns } from "../text/align-columns.js";
 
@@ -237,13 +238,7 @@ const IDENTIFIER = /^[A-Za-z_][A-Za-z0-9_-]*$/;
  * keywords (safer quoted everywhere, e.g. a cell `excluded` would start an exclusion mark) and `id`
  * (an unquoted `id` in the runs header names the run-id column).
  */
-const RESERVED = new Set(
-  (
-    "trial owner date conjecture conclusion response factor covariate plan runs " +
-    "unit maximize minimize target spec levels as block random subject control within replicates alpha " +
-    "confidence power seed sums-of-squares model detect pairwise fraction centre-points x to excluded id"
-  ).split(" "),
-);
+const RESERVED: ReadonlySet<string> = new Set([...ALL_KEYWORDS, "id"]);
 
 /** A name (column header): bare when an identifier that is not reserved, else a quoted string. */
 function renderName(text: string): string {

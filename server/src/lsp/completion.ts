@@ -4,7 +4,7 @@
  * in run rows, and snippets for a new trial file and for each declaration.
  */
 import type { Declaration, TrialFile } from "../../../grammar/src/ast.js";
-import { TOP_LEVEL_KEYWORDS } from "../../../grammar/src/tokens.js";
+import { PLAN_SETTING_KEYWORDS, TOP_LEVEL_KEYWORDS } from "../../../grammar/src/tokens.js";
 import { columnKind } from "../analysis/symbol-at.js";
 import { type CompletionItem, CompletionItemKind, InsertTextFormat, type Position } from "vscode-languageserver";
 import { positionToOffset } from "./convert.js";
@@ -17,7 +17,7 @@ export interface CompletionCapabilities {
 }
 
 /** Plan setting keywords, in the order the language reference lists them. */
-export const PLAN_KEYWORDS = ["replicates", "alpha", "confidence", "power", "seed", "sums-of-squares", "model", "detect", "pairwise", "fraction", "centre-points", "sigma"] as const;
+export const PLAN_KEYWORDS = PLAN_SETTING_KEYWORDS;
 
 const DECLARATION_OPTIONS: Record<string, readonly string[]> = {
   factor: ["levels", "unit", "as", "control", "within"],
