@@ -2,7 +2,6 @@ import { readFile, writeFile } from "node:fs/promises";
 import { extname, resolve } from "node:path";
 import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { SumsOfSquaresType } from "../analysis/design.js";
-import { renderReportHtml, renderReportMarkdown } from "../report/render-report.js";
 import { choice, parseArguments, probability } from "./arguments.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 
@@ -32,6 +31,8 @@ export async function reportCommand(args: readonly string[], io: CliIo): Promise
     throw new UsageError(`Cannot read '${path}'.`);
   });
   const analysis = analyzeDocument(text, {}, { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) });
+  // Loaded on demand: the plotting libraries are most of the bundle, and no other verb needs them.
+  const { renderReportHtml, renderReportMarkdown } = await import("../report/render-report.js");
   const report = format === "markdown" ? await renderReportMarkdown(analysis) : await renderReportHtml(analysis);
   if (output === "-") io.stdout(report);
   else {

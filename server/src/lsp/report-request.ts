@@ -1,6 +1,5 @@
 import type { Connection } from "vscode-languageserver/node";
 import { ReportRequest, type ReportResult } from "../protocol.js";
-import { renderReportHtml, renderReportMarkdown } from "../report/render-report.js";
 import { reportTitle } from "../report/report-blocks.js";
 import type { AnalyzedDocument } from "./documents.js";
 import { createHandler } from "./server.js";
@@ -19,6 +18,8 @@ export interface RequestContext {
 export async function reportOf(doc: AnalyzedDocument, format: "html" | "markdown", webview: boolean, logError: (message: string) => void): Promise<ReportResult> {
   const title = reportTitle(doc.analysis);
   try {
+    // Loaded with the first report, so the server starts without the plotting libraries.
+    const { renderReportHtml, renderReportMarkdown } = await import("../report/render-report.js");
     const content = format === "markdown" ? await renderReportMarkdown(doc.analysis) : await renderReportHtml(doc.analysis, { webview });
     return { version: doc.version, title, content };
   } catch (error) {
