@@ -16,11 +16,12 @@ import { trialLexer } from "./tokens.js";
 export function parseTrial(text: string): TrialFile {
   const source = typeof text === "string" ? text : String(text ?? "");
   try {
-    const lexed = trialLexer.tokenize(source);
-    trialParser.setSource(source);
-    trialParser.input = lexed.tokens;
-    const cst = trialParser.trialFile() as TrialFileCstNode;
-    const problems: SyntaxProblem[] = [...lexingProblems(lexed), ...parsingProblems(source, lexed.tokens, trialParser.errors)];
+    const lexed = trialLexer().tokenize(source);
+    const parser = trialParser();
+    parser.setSource(source);
+    parser.input = lexed.tokens;
+    const cst = parser.trialFile() as TrialFileCstNode;
+    const problems: SyntaxProblem[] = [...lexingProblems(lexed), ...parsingProblems(source, lexed.tokens, parser.errors)];
     return buildTrialFile(source, cst, problems);
   } catch (error) {
     // A bug of ours must not reach the user as an exception: report it where it cannot be missed.

@@ -170,7 +170,11 @@ export class TrialParser extends CstParser {
   /** Creates the parser (grammar analysis included: costly, do it once). */
   constructor() {
     const context: ErrorContext = { source: "", where: "the file", expect: "a name" };
-    super(T.ALL_TOKENS, { recoveryEnabled: true, errorMessageProvider: new TrialErrorMessages(context) });
+    super(T.ALL_TOKENS, {
+      recoveryEnabled: true,
+      errorMessageProvider: new TrialErrorMessages(context),
+      skipValidations: T.SKIP_GRAMMAR_VALIDATIONS,
+    });
     this.context = context;
     this.performSelfAnalysis();
   }
@@ -530,5 +534,10 @@ function quoteName(image: string): string {
   return image.startsWith('"') ? image : `'${image}'`;
 }
 
-/** The one parser instance, reused for every parse. */
-export const trialParser = new TrialParser();
+let parser: TrialParser | undefined;
+
+/** The one parser instance, built on first use and reused for every parse. */
+export function trialParser(): TrialParser {
+  parser ??= new TrialParser();
+  return parser;
+}

@@ -389,8 +389,25 @@ export const LEXER_DEFINITION = {
   defaultMode: "main",
 };
 
-/** The one lexer instance (Chevrotain lexers are stateless between calls and costly to build). */
-export const trialLexer = new Lexer(LEXER_DEFINITION, {
-  positionTracking: "onlyOffset",
-  ensureOptimizations: false,
-});
+/**
+ * True in the shipped bundles (esbuild defines `__TRIALBOOK_BUNDLE__`, see esbuild.mjs), where Chevrotain's
+ * grammar validations are skipped: they check the grammar itself, not the input, and cost about 40 ms at
+ * every start. The compiled tests (out/) run them on every test run, so a grammar mistake still fails there.
+ */
+declare const __TRIALBOOK_BUNDLE__: boolean | undefined;
+export const SKIP_GRAMMAR_VALIDATIONS = typeof __TRIALBOOK_BUNDLE__ !== "undefined" && __TRIALBOOK_BUNDLE__ === true;
+
+let lexer: Lexer | undefined;
+
+/**
+ * The one lexer instance, built on first use (Chevrotain lexers are stateless between calls and costly to
+ * build; a command that reads no file should not pay for it).
+ */
+export function trialLexer(): Lexer {
+  lexer ??= new Lexer(LEXER_DEFINITION, {
+    positionTracking: "onlyOffset",
+    ensureOptimizations: false,
+    skipValidations: SKIP_GRAMMAR_VALIDATIONS,
+  });
+  return lexer;
+}
