@@ -47,7 +47,7 @@ import type {
   TextValueCstNode,
   TrialFileCstNode,
 } from "./cst.generated.js";
-import { scanRunsBody, unquote } from "./runs-scanner.js";
+import { runsBodyProblems, scanRunsTable, unquote, type RunsBodyScan } from "./runs-scanner.js";
 import { isTopLevelKeyword } from "./tokens.js";
 
 const IDENTIFIER = /^[A-Za-z_][A-Za-z0-9_-]*$/;
@@ -420,8 +420,11 @@ function runsTable(b: Builder, node: RunsTableCstNode): RunsTable | undefined {
   const body = firstReal(c.RunsBody);
   const bodyStart = body === undefined ? end : body.startOffset;
   const bodyEnd = body === undefined ? end : tokenEnd(body);
-  const scan = scanRunsBody(b.source, bodyStart, bodyEnd, headerHasPipe);
-  for (const p of scan.problems) b.problems.push(p);
+  // The lexer's `RunsBody` matcher has already scanned the body (one pass finds its end and its rows);
+  // scan here only for a token that came without that payload.
+  const payload = body?.payload as RunsBodyScan | undefined;
+  const scan = payload !== undefined && payload.end === bodyEnd ? payload : scanRunsTable(b.source, bodyStart, bodyEnd);
+  for (const p of runsBodyProblems(scan, headerHasPipe)) b.problems.push(p);
   const rows = scan.rows;
   for (let r = 0; r < rows.count; r++) end = Math.max(end, rows.rowEnd[r]!);
   return {

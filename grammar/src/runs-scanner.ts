@@ -1,16 +1,42 @@
 /**
- * The runs-table row scanner: turns the text of a `RunsBody` token into the column-wise `RunRows`.
+ * The runs-table row scanner: reads the body of a runs table into the column-wise `RunRows`.
+ *
+ * It finds where the table ends itself (the first line, after a line feed, whose first word is a
+ * top-level keyword), so the lexer's `RunsBody` matcher runs it once and hands the result to the AST
+ * builder as the token's payload: the body is read once, not once to find its end and again to split it.
  *
  * A tight loop over character codes, with no object and no regular expression per cell: a million-run
- * table is about 30 MB of text and must be read in a fraction of a second. Cells go into typed arrays
- * that grow by doubling and are trimmed with `subarray` at the end. Only problems (rare) allocate.
+ * table is about 22 MB of text and must be read in well under a tenth of a second. Cells go into typed
+ * arrays sized from the density of the first rows read (one regrowth on a uniform file instead of a
+ * chain of doublings). Only problems (rare) allocate.
  */
 import { CellFlag, type ExcludedMark, type RunRows, type SyntaxProblem } from "./ast.js";
+import { isTopLevelKeywordAt } from "./top-level-keywords.js";
 
 /** The rows of one table body and the syntax problems found in it. */
 export interface RunsScanResult {
   readonly rows: RunRows;
   readonly problems: SyntaxProblem[];
+}
+
+/**
+ * What one pass over a runs-table body found, before the header is known. The checks that compare a
+ * row's `|` with the header's are made later by `runsBodyProblems`, which needs only the rows.
+ */
+export interface RunsBodyScan {
+  /**
+   * Offset just past the body: the start of the first line (after a line feed) whose first word is a
+   * top-level keyword, or the end of the scanned range.
+   */
+  readonly end: number;
+  readonly rows: RunRows;
+  /** Problems inside rows, in text order (the header-dependent `|` checks are not among them). */
+  readonly rowProblems: readonly SyntaxProblem[];
+  /** For each entry of `rowProblems`, the index of the row it was found in. */
+  readonly rowProblemRows: readonly number[];
+  /** How many rows have no `|`, and how many have one: lets `runsBodyProblems` skip the row loop. */
+  readonly rowsWithoutPipe: number;
+  readonly rowsWithPipe: number;
 }
 
 const LF = 10;
@@ -23,45 +49,27 @@ const PIPE = 124;
 const BACKSLASH = 92;
 const BOM = 0xfeff;
 
-/** Growable Int32Array. */
-class IntColumn {
-  data: Int32Array;
-  length = 0;
-  constructor(capacity: number) {
-    this.data = new Int32Array(capacity);
-  }
-  push(value: number): void {
-    if (this.length === this.data.length) {
-      const grown = new Int32Array(this.data.length * 2);
-      grown.set(this.data);
-      this.data = grown;
-    }
-    this.data[this.length++] = value;
-  }
-  trimmed(): Int32Array {
-    return this.data.subarray(0, this.length);
-  }
-}
-
-/** Growable Uint8Array. */
-class ByteColumn {
-  data: Uint8Array;
-  length = 0;
-  constructor(capacity: number) {
-    this.data = new Uint8Array(capacity);
-  }
-  push(value: number): void {
-    if (this.length === this.data.length) {
-      const grown = new Uint8Array(this.data.length * 2);
-      grown.set(this.data);
-      this.data = grown;
-    }
-    this.data[this.length++] = value;
-  }
-  trimmed(): Uint8Array {
-    return this.data.subarray(0, this.length);
-  }
-}
+/**
+ * Character classes, one byte per UTF-16 code unit, so the cell loop makes one table load per character
+ * instead of a chain of comparisons. 0 is an ordinary cell character.
+ */
+const K_BLANK = 1; // space, tab, byte-order mark
+const K_BREAK = 2; // \n, \r
+const K_PIPE = 3;
+const K_HASH = 4;
+const K_QUOTE = 5; // ends nothing inside a bare cell (a stray quote), starts a quoted cell
+const CLASS: Uint8Array = (() => {
+  const table = new Uint8Array(65536);
+  table[SPACE] = K_BLANK;
+  table[TAB] = K_BLANK;
+  table[BOM] = K_BLANK;
+  table[LF] = K_BREAK;
+  table[CR] = K_BREAK;
+  table[PIPE] = K_PIPE;
+  table[HASH] = K_HASH;
+  table[QUOTE] = K_QUOTE;
+  return table;
+})();
 
 function isBlank(c: number): boolean {
   return c === SPACE || c === TAB || c === BOM;
@@ -89,64 +97,127 @@ function problem(message: string, start: number, end: number): SyntaxProblem {
 }
 
 /**
- * Scans the table body `source[start, end)` into rows and cells. `start` is the line break that ends the
- * header line (the body token's first character); the header line itself is not read. `headerHasPipe`
- * says whether the header separates factor from response columns, so a row without `|` is reported.
+ * The capacity to grow a column to once `used` entries filled it after reading `source[start, p)`: the
+ * density so far extrapolated to the whole range `[start, end)` plus a sixteenth, so a uniform table
+ * regrows once; never less than 1.5 times the current capacity, so a skewed one still grows geometrically.
  */
-export function scanRunsBody(source: string, start: number, end: number, headerHasPipe: boolean): RunsScanResult {
-  // A typical row has 5 to 10 cells and 30 to 60 characters; start near that and double as needed.
-  const estimateRows = Math.max(16, Math.ceil((end - start) / 32));
-  const rowStart = new IntColumn(estimateRows);
-  const rowEnd = new IntColumn(estimateRows);
-  const cellOffset = new IntColumn(estimateRows + 1);
-  const pipeCell = new IntColumn(estimateRows);
-  const cellStart = new IntColumn(estimateRows * 4);
-  const cellEnd = new IntColumn(estimateRows * 4);
-  const cellFlags = new ByteColumn(estimateRows * 4);
+function grownCapacity(capacity: number, used: number, start: number, p: number, end: number): number {
+  const read = p - start;
+  const projected = read > 0 ? Math.ceil((used / read) * (end - start) * 1.0625) + 64 : 0;
+  return Math.max(projected, capacity + (capacity >> 1) + 16);
+}
+
+function grow32(data: Int32Array, capacity: number): Int32Array {
+  const grown = new Int32Array(capacity);
+  grown.set(data);
+  return grown;
+}
+
+function grow8(data: Uint8Array, capacity: number): Uint8Array {
+  const grown = new Uint8Array(capacity);
+  grown.set(data);
+  return grown;
+}
+
+/**
+ * The first `used` entries of a column: a view when little would be wasted, else a copy, so that an
+ * over-estimate does not keep a large buffer alive for as long as the AST lives.
+ */
+function trimmed32(data: Int32Array, used: number): Int32Array {
+  return data.length - used > (used >> 3) + 1024 ? data.slice(0, used) : data.subarray(0, used);
+}
+
+function trimmed8(data: Uint8Array, used: number): Uint8Array {
+  return data.length - used > (used >> 3) + 1024 ? data.slice(0, used) : data.subarray(0, used);
+}
+
+/**
+ * Scans a runs-table body starting at `start`, the line break that ends the header line (the header
+ * itself is not read), up to the first line (after a line feed) whose first word is a top-level keyword,
+ * or up to `limit` (default: the end of `source`), whichever comes first. Returns the rows, the problems
+ * found inside rows, and where the body ends. The `|` checks that need the header are left to
+ * `runsBodyProblems`.
+ */
+export function scanRunsTable(source: string, start: number, limit: number = source.length): RunsBodyScan {
+  const end = Math.max(start, Math.min(limit, source.length));
+  // Start small (a small file must not pay for a large allocation) and extrapolate at the first regrowth.
+  let rowCap = Math.min(4096, Math.max(16, (end - start) >> 4));
+  let cellCap = rowCap * 4;
+  let rowStart: Int32Array = new Int32Array(rowCap);
+  let rowEnd: Int32Array = new Int32Array(rowCap);
+  let cellOffset: Int32Array = new Int32Array(rowCap + 1);
+  let pipeCell: Int32Array = new Int32Array(rowCap);
+  let cellStart: Int32Array = new Int32Array(cellCap);
+  let cellEnd: Int32Array = new Int32Array(cellCap);
+  let cellFlags: Uint8Array = new Uint8Array(cellCap);
+  let rowCount = 0;
+  let cellCount = 0;
+  let rowsWithPipe = 0;
   const excluded = new Map<number, ExcludedMark>();
   const problems: SyntaxProblem[] = [];
+  const problemRows: number[] = [];
+  const table = CLASS;
 
   // End of the last run of glued characters reported after a closing quote (see below).
   let glueEnd = -1;
+  let bodyEnd = end;
   let p = start;
-  cellOffset.push(0);
+  cellOffset[0] = 0;
   while (p < end) {
-    // At a line start (or the header's line break): skip the line break first.
+    // At a line start (or the header's line break): skip the line break first. After a line feed, the
+    // table ends if the line's first word (after spaces and tabs) is a top-level keyword: that line starts
+    // the next declaration.
     let c = source.charCodeAt(p);
-    if (c === CR) {
+    if (c === LF || c === CR) {
       p++;
-      if (p < end && source.charCodeAt(p) === LF) p++;
+      if (c === CR) {
+        if (p >= end || source.charCodeAt(p) !== LF) continue;
+        p++;
+      }
+      let q = p;
+      while (q < end && ((c = source.charCodeAt(q)) === SPACE || c === TAB)) q++;
+      if (q < end && isTopLevelKeywordAt(source, q)) {
+        bodyEnd = p;
+        break;
+      }
+      // The spaces and tabs just read are blanks for the row too.
+      p = q;
       continue;
     }
-    if (c === LF) {
-      p++;
-      continue;
+    if (table[c] === K_BLANK) {
+      do p++;
+      while (p < end && table[(c = source.charCodeAt(p))] === K_BLANK);
+      if (p >= end) break;
+      if (c === LF || c === CR) continue;
     }
-    while (p < end && isBlank(source.charCodeAt(p))) p++;
-    if (p >= end) break;
-    c = source.charCodeAt(p);
-    if (c === LF || c === CR) continue;
     if (c === HASH) {
       p = skipToLineEnd(source, p, end);
       continue;
     }
 
-    // A row.
-    const row = rowStart.length;
-    const firstCell = cellStart.length;
+    // A row. `kind` is the class of the character at `p` (a line break past the end of the range).
+    if (rowCount === rowCap) {
+      rowCap = grownCapacity(rowCap, rowCount, start, p, end);
+      rowStart = grow32(rowStart, rowCap);
+      rowEnd = grow32(rowEnd, rowCap);
+      cellOffset = grow32(cellOffset, rowCap + 1);
+      pipeCell = grow32(pipeCell, rowCap);
+    }
+    const row = rowCount;
+    const firstCell = cellCount;
     let pipe = -1;
     let lastContentEnd = p;
     let mark: ExcludedMark | undefined;
-    let unterminatedCell = false;
-    rowStart.push(p);
-    while (p < end) {
-      c = source.charCodeAt(p);
-      if (isBlank(c)) {
+    let kind = table[c]!;
+    rowStart[row] = p;
+    for (;;) {
+      if (kind === K_BLANK) {
         p++;
+        kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
         continue;
       }
-      if (c === LF || c === CR) break;
-      if (c === HASH) {
+      if (kind === K_BREAK) break;
+      if (kind === K_HASH) {
         p = skipToLineEnd(source, p, end);
         break;
       }
@@ -160,29 +231,40 @@ export function scanRunsBody(source: string, start: number, end: number, headerH
             trimEnd(source, p, stop),
           ),
         );
+        problemRows.push(row);
         lastContentEnd = trimEnd(source, p, stop);
         p = stop;
+        kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
         continue;
       }
-      if (c === PIPE) {
+      if (kind === K_PIPE) {
         if (pipe < 0) {
-          pipe = cellStart.length - firstCell;
+          pipe = cellCount - firstCell;
         } else {
           problems.push(problem("a second '|' in this row: a row has one '|' between factor and response columns", p, p + 1));
+          problemRows.push(row);
         }
         lastContentEnd = p + 1;
         p++;
+        kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
         continue;
       }
-      if (c === QUOTE) {
+      if (cellCount === cellCap) {
+        cellCap = grownCapacity(cellCap, cellCount, start, p, end);
+        cellStart = grow32(cellStart, cellCap);
+        cellEnd = grow32(cellEnd, cellCap);
+        cellFlags = grow8(cellFlags, cellCap);
+      }
+      if (kind === K_QUOTE) {
         const qEnd = scanQuoted(source, p, end);
         const terminated = lastQuotedTerminated;
-        cellStart.push(p);
-        cellEnd.push(qEnd);
-        cellFlags.push(terminated ? CellFlag.Quoted : CellFlag.Quoted | CellFlag.Unterminated);
+        cellStart[cellCount] = p;
+        cellEnd[cellCount] = qEnd;
+        cellFlags[cellCount] = terminated ? CellFlag.Quoted : CellFlag.Quoted | CellFlag.Unterminated;
+        cellCount++;
         if (!terminated) {
-          unterminatedCell = true;
           problems.push(problem("unterminated quoted cell: add the closing '\"'", p, qEnd));
+          problemRows.push(row);
         } else if (qEnd < end && !endsBareCell(source.charCodeAt(qEnd))) {
           // `"a"b`: report the glued characters and go on reading them as another cell. A run of glued
           // quoted cells (`""""…`) shares one end: start from the one already found, or a long run would
@@ -191,19 +273,27 @@ export function scanRunsBody(source: string, start: number, end: number, headerH
           while (e < end && !endsBareCell(source.charCodeAt(e))) e++;
           glueEnd = e;
           problems.push(problem("put a space after the closing quote: cells are separated by spaces or tabs", qEnd, e));
+          problemRows.push(row);
         }
         lastContentEnd = qEnd;
         p = qEnd;
+        kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
         continue;
       }
-      // An unquoted cell.
+      // An unquoted cell: up to a blank, a line break, `|` or `#` (a quote inside it is stray). Its first
+      // character is an ordinary one (every other class is handled above).
       const s = p;
       let strayQuote = -1;
-      while (p < end) {
-        const d = source.charCodeAt(p);
-        if (endsBareCell(d)) break;
-        if (d === QUOTE && strayQuote < 0) strayQuote = p;
-        p++;
+      kind = K_BREAK;
+      while (++p < end) {
+        const k = table[source.charCodeAt(p)]!;
+        if (k !== 0) {
+          if (k !== K_QUOTE) {
+            kind = k;
+            break;
+          }
+          if (strayQuote < 0) strayQuote = p;
+        }
       }
       if (strayQuote >= 0) {
         problems.push(
@@ -213,58 +303,123 @@ export function scanRunsBody(source: string, start: number, end: number, headerH
             strayQuote + 1,
           ),
         );
+        problemRows.push(row);
       }
-      if (isExcludedWord(source, s, p)) {
+      if (p - s === 8 && isExcludedWord(source, s, p)) {
         // `excluded "reason"`: the reason must follow, quoted.
         let r = p;
         while (r < end && isBlank(source.charCodeAt(r))) r++;
         if (r < end && source.charCodeAt(r) === QUOTE) {
           const qEnd = scanQuoted(source, r, end);
           const terminated = lastQuotedTerminated;
-          if (!terminated) problems.push(problem("unterminated excluded reason: add the closing '\"'", r, qEnd));
+          if (!terminated) {
+            problems.push(problem("unterminated excluded reason: add the closing '\"'", r, qEnd));
+            problemRows.push(row);
+          }
           const reason = { text: unquote(source.slice(r, qEnd), terminated), span: { start: r, end: qEnd } };
           mark = { span: { start: s, end: qEnd }, reason };
           p = qEnd;
+          kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
         } else {
           mark = { span: { start: s, end: p } };
           problems.push(problem('excluded needs a reason in quotes: excluded "why the run does not count"', s, p));
+          problemRows.push(row);
         }
         excluded.set(row, mark);
         lastContentEnd = mark.span.end;
         continue;
       }
-      cellStart.push(s);
-      cellEnd.push(p);
-      cellFlags.push(CellFlag.None);
+      cellStart[cellCount] = s;
+      cellEnd[cellCount] = p;
+      cellFlags[cellCount] = CellFlag.None;
+      cellCount++;
       lastContentEnd = p;
     }
-    rowEnd.push(lastContentEnd);
-    pipeCell.push(pipe);
-    cellOffset.push(cellStart.length);
-    // An unterminated quoted cell swallows the rest of the line, `|` included: one problem is enough.
-    if (pipe < 0 && headerHasPipe && cellStart.length > firstCell && !unterminatedCell) {
-      problems.push(
-        problem("missing '|' between factor and response columns: put '|' where the runs header has it", rowStart.data[row]!, lastContentEnd),
-      );
-    } else if (pipe >= 0 && !headerHasPipe) {
-      problems.push(
-        problem("this row has '|' but the runs header has none: add '|' before the response names in the header", rowStart.data[row]!, lastContentEnd),
-      );
-    }
+    rowEnd[row] = lastContentEnd;
+    pipeCell[row] = pipe;
+    if (pipe >= 0) rowsWithPipe++;
+    rowCount++;
+    cellOffset[rowCount] = cellCount;
   }
 
   const rows: RunRows = {
-    count: rowStart.length,
-    rowStart: rowStart.trimmed(),
-    rowEnd: rowEnd.trimmed(),
-    cellOffset: cellOffset.trimmed(),
-    pipeCell: pipeCell.trimmed(),
-    cellStart: cellStart.trimmed(),
-    cellEnd: cellEnd.trimmed(),
-    cellFlags: cellFlags.trimmed(),
+    count: rowCount,
+    rowStart: trimmed32(rowStart, rowCount),
+    rowEnd: trimmed32(rowEnd, rowCount),
+    cellOffset: trimmed32(cellOffset, rowCount + 1),
+    pipeCell: trimmed32(pipeCell, rowCount),
+    cellStart: trimmed32(cellStart, cellCount),
+    cellEnd: trimmed32(cellEnd, cellCount),
+    cellFlags: trimmed8(cellFlags, cellCount),
     excluded,
   };
-  return { rows, problems };
+  return {
+    end: bodyEnd,
+    rows,
+    rowProblems: problems,
+    rowProblemRows: problemRows,
+    rowsWithoutPipe: rowCount - rowsWithPipe,
+    rowsWithPipe,
+  };
+}
+
+/** True when some cell of row `r` is a quoted cell without its closing quote. */
+function rowHasUnterminatedCell(rows: RunRows, r: number): boolean {
+  for (let i = rows.cellOffset[r]!; i < rows.cellOffset[r + 1]!; i++) {
+    if ((rows.cellFlags[i]! & CellFlag.Unterminated) !== 0) return true;
+  }
+  return false;
+}
+
+/**
+ * All problems of a scanned body in text order: the problems found inside each row, each followed by
+ * that row's disagreement with the header about `|` (a row without `|` under a header with one, or the
+ * other way round). A row whose quoted cell is unterminated swallowed its `|`: no second problem for it.
+ */
+export function runsBodyProblems(scan: RunsBodyScan, headerHasPipe: boolean): SyntaxProblem[] {
+  const rows = scan.rows;
+  const inRows = scan.rowProblems;
+  const rowOf = scan.rowProblemRows;
+  const mismatched = headerHasPipe ? scan.rowsWithoutPipe : scan.rowsWithPipe;
+  if (mismatched === 0) return inRows.slice();
+  const out: SyntaxProblem[] = [];
+  let j = 0;
+  for (let r = 0; r < rows.count; r++) {
+    while (j < inRows.length && rowOf[j] === r) out.push(inRows[j++]!);
+    const pipe = rows.pipeCell[r]!;
+    if (pipe < 0) {
+      if (headerHasPipe && rows.cellOffset[r + 1]! > rows.cellOffset[r]! && !rowHasUnterminatedCell(rows, r)) {
+        out.push(
+          problem(
+            "missing '|' between factor and response columns: put '|' where the runs header has it",
+            rows.rowStart[r]!,
+            rows.rowEnd[r]!,
+          ),
+        );
+      }
+    } else if (!headerHasPipe) {
+      out.push(
+        problem(
+          "this row has '|' but the runs header has none: add '|' before the response names in the header",
+          rows.rowStart[r]!,
+          rows.rowEnd[r]!,
+        ),
+      );
+    }
+  }
+  while (j < inRows.length) out.push(inRows[j++]!);
+  return out;
+}
+
+/**
+ * Scans the table body `source[start, end)` into rows and cells, with every problem. `start` is the line
+ * break that ends the header line; `end` is where the body ends (the table also stops earlier at a line
+ * starting with a top-level keyword, which a `RunsBody` token never contains). `headerHasPipe` says
+ * whether the header separates factor from response columns, so a row without `|` is reported.
+ */
+export function scanRunsBody(source: string, start: number, end: number, headerHasPipe: boolean): RunsScanResult {
+  const scan = scanRunsTable(source, start, end);
+  return { rows: scan.rows, problems: runsBodyProblems(scan, headerHasPipe) };
 }
 
 function skipToLineEnd(source: string, p: number, end: number): number {

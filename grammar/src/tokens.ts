@@ -10,20 +10,10 @@
  * (the keyword-versus-identifier pattern from the Chevrotain examples).
  */
 import { createToken, Lexer, type CustomPatternMatcherReturn, type TokenType } from "chevrotain";
+import { scanRunsTable } from "./runs-scanner.js";
+import { TOP_LEVEL_KEYWORDS, lineStartsWithTopLevelKeyword } from "./top-level-keywords.js";
 
-/** Top-level keywords: they start a declaration and are reserved everywhere (quote a name equal to one). */
-export const TOP_LEVEL_KEYWORDS = [
-  "trial",
-  "owner",
-  "date",
-  "conjecture",
-  "conclusion",
-  "response",
-  "factor",
-  "covariate",
-  "plan",
-  "runs",
-] as const;
+export { TOP_LEVEL_KEYWORDS, isTopLevelKeyword, lineStartsWithTopLevelKeyword } from "./top-level-keywords.js";
 
 /** Keywords that start a setting inside `plan`. */
 export const PLAN_SETTING_KEYWORDS = [
@@ -64,45 +54,8 @@ export const CONTEXTUAL_KEYWORDS = [
 /** Every keyword of the language: the top-level ones followed by the contextual ones. */
 export const ALL_KEYWORDS: readonly string[] = [...TOP_LEVEL_KEYWORDS, ...CONTEXTUAL_KEYWORDS];
 
-const TOP_LEVEL_SET: ReadonlySet<string> = new Set(TOP_LEVEL_KEYWORDS);
-
-/** True when `word` is a top-level keyword (`trial`, `factor`, `runs`, ...). */
-export function isTopLevelKeyword(word: string): boolean {
-  return TOP_LEVEL_SET.has(word);
-}
-
 const CH_LF = 10;
 const CH_CR = 13;
-const CH_SPACE = 32;
-const CH_TAB = 9;
-const CH_QUOTE = 34;
-
-function isWordChar(c: number): boolean {
-  return (
-    (c >= 97 && c <= 122) || (c >= 65 && c <= 90) || (c >= 48 && c <= 57) || c === 95 || c === 45 // a-z A-Z 0-9 _ -
-  );
-}
-
-/**
- * If the line starting at `lineStart` begins (after spaces and tabs) with a top-level keyword as a whole
- * word, returns true. Used to find where a runs table or an unterminated text block ends.
- */
-export function lineStartsWithTopLevelKeyword(text: string, lineStart: number): boolean {
-  let p = lineStart;
-  const n = text.length;
-  let c = p < n ? text.charCodeAt(p) : -1;
-  while (c === CH_SPACE || c === CH_TAB) {
-    p++;
-    c = p < n ? text.charCodeAt(p) : -1;
-  }
-  // Every top-level keyword starts with one of these lowercase letters: a cheap filter for data rows.
-  if (c !== 116 && c !== 111 && c !== 100 && c !== 99 && c !== 114 && c !== 102 && c !== 112) return false;
-  const wordStart = p;
-  while (p < n && isWordChar(text.charCodeAt(p))) p++;
-  const length = p - wordStart;
-  if (length < 4 || length > 10) return false;
-  return TOP_LEVEL_SET.has(text.slice(wordStart, p));
-}
 
 /** Where a `"""` text block starting at `offset` ends, and whether its closing fence was found. */
 export interface TextBlockExtent {
@@ -149,22 +102,17 @@ function matchTextBlock(wantTerminated: boolean) {
 /**
  * Matches the body of a runs table: from the line break that ends the header line up to (not including)
  * the first line whose first word is a top-level keyword, or the end of the text. One token, however
- * many rows: the scanner in `runs-scanner.ts` reads it without allocating per cell.
+ * many rows. Finding that end means reading every row, so the matcher runs the row scanner of
+ * `runs-scanner.ts` itself and hands its result to the AST builder as the token's payload: the body is
+ * read once. The payload lives as long as the token, so nothing is kept between parses.
  */
 function matchRunsBody(text: string, offset: number): CustomPatternMatcherReturn | null {
   const c = text.charCodeAt(offset);
   if (c !== CH_LF && c !== CH_CR) return null;
-  let nl = c === CH_CR ? text.indexOf("\n", offset) : offset;
-  if (nl < 0) return [text.slice(offset)] as unknown as CustomPatternMatcherReturn;
-  let end = text.length;
-  while (nl >= 0) {
-    if (lineStartsWithTopLevelKeyword(text, nl + 1)) {
-      end = nl + 1;
-      break;
-    }
-    nl = text.indexOf("\n", nl + 1);
-  }
-  return [text.slice(offset, end)] as unknown as CustomPatternMatcherReturn;
+  const scan = scanRunsTable(text, offset);
+  const match = [text.slice(offset, scan.end)] as CustomPatternMatcherReturn;
+  match.payload = scan;
+  return match;
 }
 
 // ---------------------------------------------------------------------------------------------------
