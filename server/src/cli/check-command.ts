@@ -1,11 +1,11 @@
 import { readFile } from "node:fs/promises";
 import { resolve } from "node:path";
 import type { Span } from "../../../grammar/src/ast.js";
-import { LineIndex } from "../../../grammar/src/line-index.js";
 import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { Diagnostic } from "../analysis/diagnostics.js";
 import { choice, parseArguments } from "./arguments.js";
 import { findTrialFiles } from "./find-trial-files.js";
+import { locateOffsets } from "./locate-offsets.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 import { type SarifDiagnostic, type SarifRegion, sarifLog } from "./sarif.js";
 import { createProgress, severityStyle, terminalStyle } from "./terminal-style.js";
@@ -32,10 +32,11 @@ export interface LocatedDiagnostic {
 
 /** Converts offset-based diagnostics to 1-based lines and columns (UTF-16 columns, as editors count). */
 export function locateDiagnostics(text: string, diagnostics: readonly Diagnostic[]): LocatedDiagnostic[] {
-  const index = new LineIndex(text);
+  // Only the diagnostics' own offsets are located (locate-offsets.ts), not every line of the text.
+  const positions = locateOffsets(text, diagnostics.map((d) => d.span.start));
   return diagnostics
-    .map((d) => {
-      const p = index.positionAt(d.span.start);
+    .map((d, i) => {
+      const p = positions[i]!;
       return { severity: d.severity, code: d.code, message: d.message, line: p.line + 1, column: p.character + 1 };
     })
     .sort((a, b) => a.line - b.line || a.column - b.column);
@@ -122,10 +123,18 @@ export function summaryLine(s: CheckSummary): string {
 
 /** Diagnostics of one file with full regions (start and end) and related locations, for SARIF. */
 export function sarifDiagnostics(file: string, text: string, diagnostics: readonly Diagnostic[]): SarifDiagnostic[] {
-  const index = new LineIndex(text);
+  // Every start, end and related location of the file's diagnostics, located in one ascending scan.
+  const spans: Span[] = [];
+  for (const d of diagnostics) {
+    spans.push(d.span);
+    for (const r of d.related ?? []) spans.push(r.span);
+  }
+  const positions = locateOffsets(text, spans.flatMap((span) => [span.start, Math.max(span.start, span.end)]));
+  const located = new Map(spans.map((span, i) => [span, i] as const));
   const region = (span: Span): SarifRegion => {
-    const start = index.positionAt(span.start);
-    const end = index.positionAt(Math.max(span.start, span.end));
+    const i = located.get(span)!;
+    const start = positions[2 * i]!;
+    const end = positions[2 * i + 1]!;
     return { startLine: start.line + 1, startColumn: start.character + 1, endLine: end.line + 1, endColumn: end.character + 1 };
   };
   return diagnostics

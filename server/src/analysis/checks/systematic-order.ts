@@ -47,23 +47,34 @@ export interface OrderClustering {
 /**
  * The clustering of `levels` (a level index per run in run order; negative entries are unknown and
  * skipped), or undefined when fewer than two levels are present or there are no more runs than levels.
+ * `levelCount`, when given, bounds the level indices (a factor's declared levels), so that the sizes and
+ * rank sums live in typed arrays filled in a single pass over the runs.
  */
-export function orderClustering(levels: ArrayLike<number>): OrderClustering | undefined {
-  const sums = new Map<number, { n: number; rankSum: number }>();
+export function orderClustering(levels: ArrayLike<number>, levelCount?: number): OrderClustering | undefined {
+  let count = levelCount ?? 0;
+  if (levelCount === undefined) for (let r = 0; r < levels.length; r++) if (levels[r]! >= count) count = levels[r]! + 1;
+  const sizes = new Int32Array(count);
+  // Rank sums are whole numbers below 2^53 for any file that fits in memory, so they are exact.
+  const rankSums = new Float64Array(count);
+  // Levels in order of first appearance: the sum of R_i^2 / n_i below is formed in that order.
+  const order = new Int32Array(count);
+  let k = 0;
   let n = 0;
   for (let r = 0; r < levels.length; r++) {
     const level = levels[r]!;
     if (level < 0) continue;
+    if (level >= count || level !== Math.floor(level)) return levelCount === undefined ? undefined : orderClustering(levels);
     n++;
-    const s = sums.get(level) ?? { n: 0, rankSum: 0 };
-    s.n++;
-    s.rankSum += n;
-    sums.set(level, s);
+    if (sizes[level] === 0) order[k++] = level;
+    sizes[level]!++;
+    rankSums[level] += n;
   }
-  const k = sums.size;
   if (k < 2 || n <= k) return undefined;
   let sum = 0;
-  for (const s of sums.values()) sum += (s.rankSum * s.rankSum) / s.n;
+  for (let j = 0; j < k; j++) {
+    const level = order[j]!;
+    sum += (rankSums[level]! * rankSums[level]!) / sizes[level]!;
+  }
   // H = 12 / (n (n + 1)) * sum(R_i^2 / n_i) - 3 (n + 1); clamped at 0 against rounding.
   const h = Math.max(0, (12 / (n * (n + 1))) * sum - 3 * (n + 1));
   const corrected = Math.min(1, Math.max(0, (h - (k - 1)) / (n - k)));
@@ -81,7 +92,7 @@ export function checkSystematicOrder(file: TrialFile, design: Design): Diagnosti
   const out: Diagnostic[] = [];
   design.factors.forEach((factor, f) => {
     if (factor.role !== "fixed") return;
-    const c = orderClustering(design.runs.levels[f]!);
+    const c = orderClustering(design.runs.levels[f]!, factor.levels.length);
     if (!c || c.n < SYSTEMATIC_ORDER_MIN_RUNS || c.correlation < SYSTEMATIC_ORDER_THRESHOLD) return;
     const column = table.columns.find((x) => x.text === factor.name);
     out.push(

@@ -33,19 +33,41 @@ export function fixedFactorsInModel(context: ResponseContext): number[] {
   return [...seen].sort((a, b) => a - b);
 }
 
+/**
+ * Groups already formed per fit, keyed by the fit's response values (every extension of one response sees
+ * the same array) and the factor list: the comparisons and the model checks ask for the same groups, and
+ * each forming is two passes over every run.
+ */
+const formed = new WeakMap<Float64Array, Map<string, ComparedGroups | undefined>>();
+
 /** The groups formed by crossing `factors` over the fit's observations (undefined when a factor has no codes). */
 export function groupsOf(context: ResponseContext, factors: readonly number[]): ComparedGroups | undefined {
+  let cache = formed.get(context.y);
+  if (!cache) formed.set(context.y, (cache = new Map()));
+  const key = factors.join(",");
+  if (cache.has(key)) return cache.get(key);
+  const groups = formGroups(context, factors);
+  cache.set(key, groups);
+  return groups;
+}
+
+function formGroups(context: ResponseContext, factors: readonly number[]): ComparedGroups | undefined {
   const parts = factors.map((f) => context.levelsOf(f));
   if (parts.some((p) => p === undefined)) return undefined;
   const sizes = parts.map((p) => p!.levels.length);
   const count = sizes.reduce((a, b) => a * b, 1);
-  // Mixed-radix group codes, one factor at a time over all observations (no closure per observation).
-  const codes = new Int32Array(context.y.length);
-  parts.forEach((p, j) => {
-    const size = sizes[j]!;
-    const own = p!.codes;
-    for (let i = 0; i < codes.length; i++) codes[i] = codes[i]! * size + own[i]!;
-  });
+  // A single factor's groups are its compact codes (shared, never written); a crossing gets mixed-radix
+  // codes, one factor at a time over all observations (no closure per observation).
+  let codes: Int32Array;
+  if (parts.length === 1) codes = parts[0]!.codes;
+  else {
+    codes = new Int32Array(context.y.length);
+    parts.forEach((p, j) => {
+      const size = sizes[j]!;
+      const own = p!.codes;
+      for (let i = 0; i < codes.length; i++) codes[i] = codes[i]! * size + own[i]!;
+    });
+  }
   const labels: string[] = [];
   const declared: number[] = [];
   for (let c = 0; c < count; c++) {

@@ -24,7 +24,7 @@ import { responseSpan, responseText, runId } from "../design-runs.js";
 import { type Diagnostic, diagnostic } from "../diagnostics.js";
 import type { AlternativeTests, ModelChecks } from "../results.js";
 import { bartlettTest } from "../../stats/checks/bartlett.js";
-import { leveneTest } from "../../stats/checks/levene.js";
+import { leveneTests } from "../../stats/checks/levene.js";
 import { bonferroniOutliers } from "../../stats/checks/outliers.js";
 import { shapiroWilk } from "../../stats/checks/shapiro-wilk.js";
 import { varianceMeanTrend } from "../../stats/checks/variance-mean.js";
@@ -59,8 +59,10 @@ export const modelChecksExtension: ResponseExtension = (context) => {
       // With two runs in every cell both absolute deviations of a cell are equal, so Levene-type tests have
       // no within-cell spread; they need a cell with at least three runs.
       const pairsOnly = present.every(([s]) => s.n <= 2);
-      const levene = pairsOnly ? null : leveneTest(context.y, cells.codes, cells.summaries.length, "mean");
-      const bf = pairsOnly ? null : leveneTest(context.y, cells.codes, cells.summaries.length, "median");
+      // Both tests share their passes over the runs (levene.ts).
+      const spread = pairsOnly ? null : leveneTests(context.y, cells.codes, cells.summaries.length);
+      const levene = spread?.levene ?? null;
+      const bf = spread?.brownForsythe ?? null;
       const bartlett = bartlettTest(cells.summaries);
       if (levene) checks.levene = levene;
       if (bf) checks.brownForsythe = bf;

@@ -14,22 +14,34 @@ export interface FTest {
 
 /** One-way ANOVA F of `values` grouped by `codes` (0..count-1); null when undefined (no spread, too few groups or runs). */
 export function oneWayF(values: ArrayLike<number>, codes: ArrayLike<number>, count: number): FTest | null {
-  const n = new Float64Array(count);
+  const size = new Int32Array(count);
   const sum = new Float64Array(count);
   let total = 0;
-  let used = 0;
   for (let i = 0; i < values.length; i++) {
-    n[codes[i]!]!++;
-    sum[codes[i]!] += values[i]!;
+    const g = codes[i]!;
+    size[g]!++;
+    sum[g] += values[i]!;
     total += values[i]!;
-    used++;
   }
-  const k = n.filter((x) => x > 0).length;
+  // Each group mean is formed once (the same division gives the same value for every observation).
+  const mean = new Float64Array(count);
+  for (let g = 0; g < count; g++) mean[g] = sum[g]! / size[g]!;
+  let within = 0;
+  for (let i = 0; i < values.length; i++) within += (values[i]! - mean[codes[i]!]!) ** 2;
+  return fTestFromSums(size, sum, total, values.length, within);
+}
+
+/**
+ * The F test from the group sizes and sums of `used` values, their total (summed in observation order) and
+ * the within-group sum of squares: the between-group sum of squares is Σ n_g (mean_g - grand mean)².
+ * Null when undefined (fewer than two groups, no residual df, or no spread within the groups).
+ */
+export function fTestFromSums(size: ArrayLike<number>, sum: ArrayLike<number>, total: number, used: number, within: number): FTest | null {
+  let k = 0;
+  for (let g = 0; g < size.length; g++) if (size[g]! > 0) k++;
   const grand = total / used;
   let between = 0;
-  for (let g = 0; g < count; g++) if (n[g]! > 0) between += n[g]! * (sum[g]! / n[g]! - grand) ** 2;
-  let within = 0;
-  for (let i = 0; i < values.length; i++) within += (values[i]! - sum[codes[i]!]! / n[codes[i]!]!) ** 2;
+  for (let g = 0; g < size.length; g++) if (size[g]! > 0) between += size[g]! * (sum[g]! / size[g]! - grand) ** 2;
   const df1 = k - 1;
   const df2 = used - k;
   if (df1 < 1 || df2 < 1) return null;
