@@ -1,10 +1,10 @@
 import type { Span } from "../../../grammar/src/ast.js";
-import { centerDecimals } from "../stats/decimal/center-decimals.js";
+import { centerDecimalColumn } from "../stats/decimal/center-decimals.js";
 import { fitLinearModel } from "../stats/linear-model/fit-linear-model.js";
 import { groupMeans } from "../stats/linear-model/group-means.js";
 import type { LinearModelInput, LinearModelResult, ModelFactor, ModelTerm } from "../stats/linear-model/types.js";
 import { type Design, type DesignRuns, type DesignTerm, ValueStatus } from "./design.js";
-import { covariateText, responseSpan, responseText, runId } from "./design-runs.js";
+import { responseSpan, responseText, runId } from "./design-runs.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
 import type { AdjustedLevelMean, AnovaRow, LevelMean, ResponseAnalysis, RunResidual } from "./results.js";
 
@@ -86,8 +86,9 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     return { result: empty, diagnostics };
   }
 
-  // The texts live only for the centring (read from the source, not kept per run by the design).
-  const centred = centerDecimals(selected.map((r) => responseText(runs, responseIndex, r)));
+  // Centred from the values checked when the design was built; a text is read only where exact
+  // arithmetic in doubles does not suffice (see centerDecimalColumn).
+  const centred = centerDecimalColumn(runs.responseValues[responseIndex]!, selected, (r) => responseText(runs, responseIndex, r));
   if (!centred.ok) {
     const r = selected[centred.index]!;
     diagnostics.push(diagnostic("value-out-of-range", responseSpan(runs, responseIndex, r) ?? anchors.response, `This value of '${response.name}' cannot be analysed: ${centred.reason}`));
@@ -106,23 +107,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   // Level codes are compacted to the levels that occur among the selected runs, so that a declared but
   // unused level does not show up as an aliased column.
   const compact = new Map<number, { codes: Int32Array; levels: number[] }>();
-  for (const f of allFactors) {
-    const present: number[] = [];
-    const map = new Int32Array(design.factors[f]!.levels.length).fill(-1);
-    for (const r of selected) {
-      const level = runs.levels[f]![r]!;
-      if (map[level] === -1) {
-        map[level] = 0;
-        present.push(level);
-      }
-    }
-    present.sort((a, b) => a - b);
-    present.forEach((level, i) => (map[level] = i));
-    const declared = runs.levels[f]!;
-    const codes = new Int32Array(selected.length);
-    for (let i = 0; i < selected.length; i++) codes[i] = map[declared[selected[i]!]!]!;
-    compact.set(f, { codes, levels: present });
-  }
+  for (const f of allFactors) compact.set(f, compactCodes(runs.levels[f]!, design.factors[f]!.levels.length, selected));
 
   // Terms involving a factor seen at a single level cannot be estimated: drop them and say so.
   const terms: DesignTerm[] = [];
@@ -143,18 +128,20 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     factors: t.variables.flatMap((v) => (v.kind === "factor" ? [factorSlot.get(v.index)!] : [])),
     covariates: t.variables.flatMap((v) => (v.kind === "covariate" ? [covariateSlot.get(v.index)!] : [])),
   }));
+  // Covariate values are the doubles stored when the design was built (the same correctly rounded
+  // conversion of the text as Number(text)).
+  const covariates: { name: string; values: Float64Array }[] = [];
   for (const c of usedCovariates) {
-    const values = Float64Array.from(selected, (r) => Number(covariateText(runs, c, r)));
+    const stored = runs.covariateValues[c]!.value;
+    const values = new Float64Array(selected.length);
+    for (let i = 0; i < selected.length; i++) values[i] = stored[selected[i]!]!;
     const wide = largestMagnitudeIndex(values);
     if (wide >= 0) {
       diagnostics.push(diagnostic("value-out-of-range", anchors.response, `Covariate '${design.covariates[c]!.name}' has a value beyond about 1e150 (run ${selected[wide]! + 1}), whose square cannot be computed: change the covariate's unit.`));
       return { result: empty, diagnostics };
     }
+    covariates.push({ name: design.covariates[c]!.name, values });
   }
-  const covariates = usedCovariates.map((c) => ({
-    name: design.covariates[c]!.name,
-    values: Float64Array.from(selected, (r) => Number(covariateText(runs, c, r))),
-  }));
 
   const fit = fitLinearModel({ y: centred.values, factors: modelFactors, covariates, terms: modelTerms, ssType: settings.ssType });
   if (!fit.ok) {
@@ -259,6 +246,27 @@ export function extendResult(base: ResponseAnalysis, add: Partial<ResponseAnalys
   return Object.defineProperties({}, { ...Object.getOwnPropertyDescriptors(base), ...Object.getOwnPropertyDescriptors(add) }) as ResponseAnalysis;
 }
 
+/**
+ * A factor's level codes for the selected runs, compacted to the levels that occur among them (in declared
+ * order), and the declared level of each code. One pass writes the declared levels as codes and marks the
+ * levels present; a second pass renumbers only when some declared level is absent.
+ */
+function compactCodes(declared: Int32Array, levelCount: number, selected: readonly number[]): { codes: Int32Array; levels: number[] } {
+  const n = selected.length;
+  const codes = new Int32Array(n);
+  const seen = new Uint8Array(levelCount);
+  for (let i = 0; i < n; i++) {
+    const level = declared[selected[i]!]!;
+    codes[i] = level;
+    seen[level] = 1;
+  }
+  const levels: number[] = [];
+  const map = new Int32Array(levelCount);
+  for (let l = 0; l < levelCount; l++) if (seen[l] === 1) map[l] = levels.push(l) - 1;
+  if (levels.length < levelCount) for (let i = 0; i < n; i++) codes[i] = map[codes[i]!]!;
+  return { codes, levels };
+}
+
 function uniqueIndices(terms: readonly DesignTerm[], kind: "factor" | "covariate"): number[] {
   const seen = new Set<number>();
   for (const t of terms) for (const v of t.variables) if (v.kind === kind) seen.add(v.index);
@@ -305,7 +313,9 @@ function rawMeans(
       const b = compact.get(fixed[j]!)!;
       const labels: string[] = [];
       for (const la of a.levels) for (const lb of b.levels) labels.push(`${design.factors[fixed[i]!]!.levels[la]!.name} x ${design.factors[fixed[j]!]!.levels[lb]!.name}`);
-      const codes = Int32Array.from(a.codes, (ca, k) => ca * b.levels.length + b.codes[k]!);
+      const codes = new Int32Array(a.codes.length);
+      const bCount = b.levels.length;
+      for (let k = 0; k < codes.length; k++) codes[k] = a.codes[k]! * bCount + b.codes[k]!;
       emit(`${design.factors[fixed[i]!]!.name} x ${design.factors[fixed[j]!]!.name}`, labels, codes);
     }
   }

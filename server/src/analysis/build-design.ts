@@ -1,6 +1,8 @@
 import type { DecimalNumber, FactorDecl, Name, PlanSetting, RunRows, Span, TrialFile } from "../../../grammar/src/ast.js";
 import { cellText } from "../../../grammar/src/runs-table.js";
 import { emptyScan, rangeReason, scanDecimal, scanValue } from "../stats/decimal/parse-decimal.js";
+import { type DecimalColumn, decimalColumn, storeDecimal } from "../stats/decimal/center-decimals.js";
+import { type DuplicateRunIds, duplicateRunIds } from "./duplicate-run-ids.js";
 import type {
   Design,
   DesignCovariate,
@@ -515,12 +517,33 @@ function resolveTerms(
 // ---------------------------------------------------------------------------------------------------------
 // Runs
 
+/** What a runs-table column holds, as a small integer so the per-cell dispatch is a switch on a number. */
+const enum Role {
+  Unknown = 0,
+  Id = 1,
+  Factor = 2,
+  Covariate = 3,
+  Response = 4,
+}
+
 type ColumnRole =
   | { kind: "id" }
   | { kind: "factor"; index: number }
   | { kind: "covariate"; index: number }
   | { kind: "response"; index: number }
   | { kind: "unknown" };
+
+const ROLE_CODE = { unknown: Role.Unknown, id: Role.Id, factor: Role.Factor, covariate: Role.Covariate, response: Role.Response } as const;
+
+/**
+ * The header column of cell `k` of a row. With a '|' the two sides are matched separately, so a missing
+ * cell on the left does not shift the responses; without one, cells are matched by position. -1 for a cell
+ * beyond the header.
+ */
+function columnOfCell(k: number, split: boolean, pipe: number, leftCount: number, rightCount: number, columnCount: number): number {
+  if (split) return k < pipe ? (k < leftCount ? k : -1) : k - pipe < rightCount ? leftCount + (k - pipe) : -1;
+  return k < columnCount ? k : -1;
+}
 
 function readRuns(
   file: TrialFile,
@@ -534,8 +557,10 @@ function readRuns(
   const levels = factors.map(() => new Int32Array(count).fill(-1));
   const covariateCells = covariates.map(() => new Int32Array(count).fill(-1));
   const covariateStatus = covariates.map(() => new Uint8Array(count).fill(ValueStatus.Invalid));
+  const covariateValues = covariates.map(() => decimalColumn(count));
   const responseCells = responses.map(() => new Int32Array(count).fill(-1));
   const responseStatus = responses.map(() => new Uint8Array(count).fill(ValueStatus.Invalid));
+  const responseValues = responses.map(() => decimalColumn(count));
   const excluded = new Uint8Array(count);
   const idCells = new Int32Array(count).fill(-1);
   // Texts and spans are read from the source on demand (design-runs.ts): nothing is allocated per run.
@@ -550,6 +575,8 @@ function readRuns(
     covariateStatus,
     responseStatus,
     excluded,
+    responseValues,
+    covariateValues,
   });
   // No table yet is a normal stage of planning, not a problem worth a diagnostic.
   if (!table) return runs;
@@ -557,56 +584,79 @@ function readRuns(
   const roles = mapColumns(table.columns, table.responseStart, factors, covariates, responses, sink);
   const source = file.source;
   const rows = table.rows;
+  const { cellOffset, pipeCell, cellStart, cellEnd } = rows;
   const levelIndex = factors.map((f) => new Map(f.levels.map((l, i) => [l.name, i] as const)));
   const levelNames = factors.map((f) => f.levels.map((l) => l.name));
-  const firstIdRow = new IdTable(count);
   const leftCount = table.responseStart;
   const rightCount = table.columns.length - table.responseStart;
   const columnCount = table.columns.length;
+  const headerHasPipe = table.headerHasPipe;
+  const roleKind = new Uint8Array(columnCount);
+  const roleIndex = new Int32Array(columnCount);
+  roles.forEach((role, column) => {
+    roleKind[column] = ROLE_CODE[role.kind];
+    roleIndex[column] = "index" in role ? role.index : -1;
+  });
   const idColumn = roles.findIndex((r) => r.kind === "id");
   const anyExcluded = rows.excluded.size > 0;
   // A million-row table must not allocate per cell: spans and texts are made only where a diagnostic
   // needs them.
-  const cellSpan = (cell: number): Span => ({ start: rows.cellStart[cell]!, end: rows.cellEnd[cell]! });
+  const cellSpan = (cell: number): Span => ({ start: cellStart[cell]!, end: cellEnd[cell]! });
+
+  // Run ids are checked for repeats in one pass before the rows (duplicate-run-ids.ts), so that the
+  // diagnostics below still come in row order.
+  let duplicates: DuplicateRunIds | undefined;
+  if (idColumn === 0) {
+    for (let r = 0; r < count; r++) {
+      const first = cellOffset[r]!;
+      const n = cellOffset[r + 1]! - first;
+      const pipe = pipeCell[r]!;
+      const split = pipe >= 0 && headerHasPipe;
+      const k = split && leftCount === 0 ? pipe : 0;
+      if (k < n && columnOfCell(k, split, pipe, leftCount, rightCount, columnCount) === 0) idCells[r] = first + k;
+    }
+    duplicates = duplicateRunIds(source, rows, idCells);
+  }
+  let nextDuplicate = 0;
 
   for (let r = 0; r < count; r++) {
-    const rowSpan = (): Span => runRowSpan(runs, r);
     const mark = anyExcluded ? rows.excluded.get(r) : undefined;
     if (mark) excluded[r] = 1;
-    const first = rows.cellOffset[r]!;
-    const n = rows.cellOffset[r + 1]! - first;
-    const pipe = rows.pipeCell[r]!;
-    // Map each cell of the row to a header column. With a '|' the two sides are matched separately, so a
-    // missing cell on the left does not shift the responses; without one, cells are matched by position.
-    const split = pipe >= 0 && table.headerHasPipe;
+    const first = cellOffset[r]!;
+    const n = cellOffset[r + 1]! - first;
+    const pipe = pipeCell[r]!;
+    const split = pipe >= 0 && headerHasPipe;
+    // The common row has the header's cells on each side: then cell k is column k.
+    let direct: boolean;
     if (split) {
       const left = pipe;
       const right = n - pipe;
-      if (left !== leftCount || right !== rightCount) {
+      direct = left === leftCount && right === rightCount;
+      if (!direct) {
         const parts: string[] = [];
         if (left !== leftCount) parts.push(`${left} cell${left === 1 ? "" : "s"} before '|' where the header has ${leftCount}`);
         if (right !== rightCount) parts.push(`${right} after '|' where the header has ${rightCount}`);
-        sink.add(diagnostic("column-count", rowSpan(), `This row has ${parts.join(" and ")}: add or remove cells so each column has one value (use ? for a value not measured yet).`));
+        sink.add(diagnostic("column-count", runRowSpan(runs, r), `This row has ${parts.join(" and ")}: add or remove cells so each column has one value (use ? for a value not measured yet).`));
       }
-    } else if (n !== columnCount) {
-      sink.add(
-        diagnostic("column-count", rowSpan(), `This row has ${n} cell${n === 1 ? "" : "s"} where the header has ${columnCount} columns: add or remove cells so each column has one value.`),
-      );
+    } else {
+      direct = true;
+      if (n !== columnCount) {
+        sink.add(
+          diagnostic("column-count", runRowSpan(runs, r), `This row has ${n} cell${n === 1 ? "" : "s"} where the header has ${columnCount} columns: add or remove cells so each column has one value.`),
+        );
+      }
     }
+    const cells = direct ? Math.min(n, columnCount) : n;
 
     let pendingInRow = false;
-    for (let k = 0; k < n; k++) {
-      let column: number;
-      if (split) column = k < pipe ? (k < leftCount ? k : -1) : k - pipe < rightCount ? leftCount + (k - pipe) : -1;
-      else column = k < columnCount ? k : -1;
+    for (let k = 0; k < cells; k++) {
+      const column = direct ? k : columnOfCell(k, split, pipe, leftCount, rightCount, columnCount);
       if (column < 0) continue;
-      const role = roles[column]!;
       const cell = first + k;
-      switch (role.kind) {
-        case "id": {
-          idCells[r] = cell;
-          const prior = firstIdRow.firstRowOf(source, rows, idCells, r);
-          if (prior >= 0) {
+      switch (roleKind[column]) {
+        case Role.Id: {
+          if (duplicates !== undefined && nextDuplicate < duplicates.rows.length && duplicates.rows[nextDuplicate] === r) {
+            const prior = duplicates.priors[nextDuplicate++]!;
             const id = cellText(source, rows, cell);
             sink.add(
               diagnostic("duplicate-run", cellSpan(cell), `Run id '${id}' is already used by an earlier row: give this run a new id.`, [
@@ -616,28 +666,28 @@ function readRuns(
           }
           break;
         }
-        case "factor": {
-          const idx = findLevel(source, rows, cell, levelNames[role.index]!, levelIndex[role.index]!);
+        case Role.Factor: {
+          const index = roleIndex[column]!;
+          const idx = findLevel(source, rows, cell, levelNames[index]!, levelIndex[index]!);
           if (idx < 0) {
             const text = cellText(source, rows, cell);
-            const f = factors[role.index]!;
+            const f = factors[index]!;
             const span = cellSpan(cell);
             sink.add(text === "?" ? diagnostic("unknown-level", span, `A factor setting cannot be pending: write the level of '${f.name}' this run uses${listOf(f.levels.map((l) => l.name))}.`) : unknownLevel(text, span, f.name, f.levels));
-          } else levels[role.index]![r] = idx;
+          } else levels[index]![r] = idx;
           break;
         }
-        case "covariate": {
-          const text = cellText(source, rows, cell);
-          const status = valueStatus(text, rows, cell, `covariate '${covariates[role.index]!.name}'`, sink, true);
-          covariateStatus[role.index]![r] = status;
-          covariateCells[role.index]![r] = cell;
+        case Role.Covariate: {
+          const index = roleIndex[column]!;
+          covariateStatus[index]![r] = valueStatus(source, rows, cell, covariateValues[index]!, r, "covariate", covariates[index]!.name, sink);
+          covariateCells[index]![r] = cell;
           break;
         }
-        case "response": {
-          const text = cellText(source, rows, cell);
-          const status = valueStatus(text, rows, cell, `response '${responses[role.index]!.name}'`, sink, false);
-          responseStatus[role.index]![r] = status;
-          responseCells[role.index]![r] = cell;
+        case Role.Response: {
+          const index = roleIndex[column]!;
+          const status = valueStatus(source, rows, cell, responseValues[index]!, r, "response", responses[index]!.name, sink);
+          responseStatus[index]![r] = status;
+          responseCells[index]![r] = cell;
           if (status === ValueStatus.Pending) pendingInRow = true;
           break;
         }
@@ -651,67 +701,6 @@ function readRuns(
   return runs;
 }
 
-/**
- * Finds the first row that used a run id, for duplicate-id diagnostics. An open-addressing hash table of
- * row numbers (Knuth 1998, TAOCP vol. 3, section 6.4, linear probing) sized once for the table: a
- * `Map<string, number>` of a million ids costs several times the time and memory in rehashing and entries.
- */
-class IdTable {
-  private readonly slots: Int32Array;
-  private readonly mask: number;
-
-  constructor(rows: number) {
-    let size = 16;
-    while (size < rows * 2) size *= 2;
-    this.slots = new Int32Array(size);
-    this.mask = size - 1;
-  }
-
-  /**
-   * The first earlier row whose id equals run `r`'s (id cells in `idCells`), or -1 after recording row `r`
-   * as its first. Unquoted ids are hashed and compared in place in the source; quoted ones by their text.
-   */
-  firstRowOf(source: string, rows: RunRows, idCells: Int32Array, r: number): number {
-    const cell = idCells[r]!;
-    const quoted = rows.cellFlags[cell] !== 0;
-    const text = quoted ? cellText(source, rows, cell) : source;
-    const start = quoted ? 0 : rows.cellStart[cell]!;
-    const length = (quoted ? text.length : rows.cellEnd[cell]!) - start;
-    // FNV-1a over the UTF-16 code units (Fowler, Noll & Vo), then MurmurHash3's 32-bit finalizer
-    // (Appleby 2011): ids such as r1..r1000000 differ in few bits, and without the final mixing their low
-    // bits cluster, which makes linear probing walk long runs of slots.
-    let h = 0x811c9dc5;
-    for (let i = start; i < start + length; i++) h = Math.imul(h ^ text.charCodeAt(i), 0x01000193);
-    h ^= h >>> 16;
-    h = Math.imul(h, 0x85ebca6b);
-    h ^= h >>> 13;
-    h = Math.imul(h, 0xc2b2ae35);
-    h ^= h >>> 16;
-    let slot = h & this.mask;
-    for (;;) {
-      const stored = this.slots[slot]!;
-      if (stored === 0) {
-        this.slots[slot] = r + 1;
-        return -1;
-      }
-      const other = idCells[stored - 1]!;
-      if (rows.cellFlags[other] === 0) {
-        const oStart = rows.cellStart[other]!;
-        if (rows.cellEnd[other]! - oStart === length && sameChars(text, start, source, oStart, length)) return stored - 1;
-      } else {
-        const otherText = cellText(source, rows, other);
-        if (otherText.length === length && sameChars(text, start, otherText, 0, length)) return stored - 1;
-      }
-      slot = (slot + 1) & this.mask;
-    }
-  }
-}
-
-function sameChars(a: string, aStart: number, b: string, bStart: number, length: number): boolean {
-  for (let i = 0; i < length; i++) if (a.charCodeAt(aStart + i) !== b.charCodeAt(bStart + i)) return false;
-  return true;
-}
-
 /** Largest number of levels looked up by comparing characters in place (beyond it, a map of names). */
 const SCAN_LEVELS = 16;
 
@@ -723,9 +712,13 @@ function findLevel(source: string, rows: RunRows, cell: number, names: readonly 
   if (rows.cellFlags[cell] === 0 && names.length <= SCAN_LEVELS) {
     const start = rows.cellStart[cell]!;
     const length = rows.cellEnd[cell]! - start;
-    for (let i = 0; i < names.length; i++) {
+    // Compared code unit by code unit: `startsWith` with a position is a runtime call, several times
+    // slower per cell on a large source.
+    levels: for (let i = 0; i < names.length; i++) {
       const name = names[i]!;
-      if (name.length === length && source.startsWith(name, start)) return i;
+      if (name.length !== length) continue;
+      for (let j = 0; j < length; j++) if (name.charCodeAt(j) !== source.charCodeAt(start + j)) continue levels;
+      return i;
     }
     return -1;
   }
@@ -806,25 +799,37 @@ function mapColumns(
 /** Reused by every cell check so validating a million values allocates nothing per value. */
 const scratchScan = emptyScan();
 
-function valueStatus(text: string, rows: RunRows, cell: number, what: string, sink: DiagnosticSink, isCovariate: boolean): ValueStatus {
-  const span = (): Span => ({ start: rows.cellStart[cell]!, end: rows.cellEnd[cell]! });
-  if (text === "?") {
-    if (isCovariate) {
-      sink.add(diagnostic("not-a-number", span(), `The ${what} is not recorded for this run: write the measured value.`));
+/**
+ * Checks one covariate or response cell and, for a number, stores its exact decomposition and double at
+ * `r` in `values` (so centring never reads the text again). An unquoted cell is scanned in place in the
+ * source; a substring is made only for a quoted cell or for a diagnostic's message.
+ */
+function valueStatus(source: string, rows: RunRows, cell: number, values: DecimalColumn, r: number, kind: "covariate" | "response", name: string, sink: DiagnosticSink): ValueStatus {
+  const start = rows.cellStart[cell]!;
+  const end = rows.cellEnd[cell]!;
+  const quoted = rows.cellFlags[cell] !== 0;
+  const text = quoted ? cellText(source, rows, cell) : source;
+  const from = quoted ? 0 : start;
+  const to = quoted ? text.length : end;
+  if (to - from === 1 && text.charCodeAt(from) === 63 /* ? */) {
+    if (kind === "covariate") {
+      sink.add(diagnostic("not-a-number", { start, end }, `The ${kind} '${name}' is not recorded for this run: write the measured value.`));
       return ValueStatus.Invalid;
     }
     return ValueStatus.Pending;
   }
-  const scan = scanDecimal(text, scratchScan);
+  const scan = scanDecimal(text, scratchScan, from, to);
   if (typeof scan === "string") {
-    sink.add(diagnostic("not-a-number", span(), `'${text}' is not a number for the ${what}: write a decimal number such as 12.5, or ? if it is not measured yet.`));
+    sink.add(diagnostic("not-a-number", { start, end }, `'${text.slice(from, to)}' is not a number for the ${kind} '${name}': write a decimal number such as 12.5, or ? if it is not measured yet.`));
     return ValueStatus.Invalid;
   }
-  const outOfRange = rangeReason(text, scan, scanValue(text, scan));
-  if (outOfRange) {
-    sink.add(diagnostic("value-out-of-range", span(), `The ${what} cannot be represented: ${outOfRange}. Check the value or change its unit.`));
+  const value = scanValue(text, scan);
+  if (scan.significantCount > 0 && (value === 0 || !Number.isFinite(value))) {
+    const written = text.slice(from, to);
+    sink.add(diagnostic("value-out-of-range", { start, end }, `The ${kind} '${name}' cannot be represented: ${rangeReason(written, scan, value)}. Check the value or change its unit.`));
     return ValueStatus.Invalid;
   }
+  storeDecimal(values, r, scan, value);
   return ValueStatus.Measured;
 }
 
@@ -1043,18 +1048,18 @@ function checkSubjectConditions(design: Design, sink: DiagnosticSink): void {
 export function cellIndexOfRuns(design: Design): Int32Array {
   const { runs, cellFactors } = design;
   const result = new Int32Array(runs.count);
-  for (let r = 0; r < runs.count; r++) {
-    let index = 0;
-    for (const f of cellFactors) {
-      const level = runs.levels[f]![r]!;
-      if (level < 0) {
-        index = -1;
-        break;
-      }
-      index = index * design.factors[f]!.levels.length + level;
+  // Factor by factor over typed arrays (a mixed-radix accumulation), not run by run over objects.
+  const unknown = new Uint8Array(runs.count);
+  for (const f of cellFactors) {
+    const levels = runs.levels[f]!;
+    const radix = design.factors[f]!.levels.length;
+    for (let r = 0; r < runs.count; r++) {
+      const level = levels[r]!;
+      if (level < 0) unknown[r] = 1;
+      result[r] = result[r]! * radix + level;
     }
-    result[r] = index;
   }
+  for (let r = 0; r < runs.count; r++) if (unknown[r] === 1) result[r] = -1;
   return result;
 }
 

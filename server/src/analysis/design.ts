@@ -1,4 +1,5 @@
 import type { FactorRole, Goal, RunRows, Span } from "../../../grammar/src/ast.js";
+import type { DecimalColumn } from "../stats/decimal/center-decimals.js";
 
 /** A factor level after name resolution. */
 export interface DesignLevel {
@@ -108,6 +109,14 @@ export interface DesignRuns {
   readonly responseSpans: readonly (readonly (Span | undefined)[])[];
   /** 1 where the run is marked `excluded`. */
   readonly excluded: Uint8Array;
+  /**
+   * Per response: each value as checked when the design was built (its double and exact decimal
+   * decomposition), so that the analysis centres the values without reading their texts again. Entries
+   * are meaningful only where `responseStatus` is `Measured`.
+   */
+  readonly responseValues: readonly DecimalColumn[];
+  /** Per covariate: as `responseValues`, meaningful only where `covariateStatus` is `Measured`. */
+  readonly covariateValues: readonly DecimalColumn[];
 }
 
 /**

@@ -52,6 +52,32 @@ export type CenterDecimalsResult =
 const TWO_POW_53 = 9007199254740992;
 
 /**
+ * Decimal numbers already scanned and validated, stored column-wise (one entry per value, no object per
+ * value): what a caller that checked every value once (the model builder) keeps so that centring does not
+ * read the texts again. Fill it with {@link storeDecimal}.
+ */
+export interface DecimalColumn {
+  /** The double nearest to each value; its sign is the written sign (nonzero values are never 0 here). */
+  readonly value: Float64Array;
+  /** The significant digits as an exact integer; 0 for zero; -1 when there are more than 15 of them. */
+  readonly mantissa: Float64Array;
+  /** Power of ten of the last significant digit (`DecimalScan.exponent`); 0 for zero. */
+  readonly exponent: Int32Array;
+}
+
+/** A column of `length` decimals, all zero until stored. */
+export function decimalColumn(length: number): DecimalColumn {
+  return { value: new Float64Array(length), mantissa: new Float64Array(length), exponent: new Int32Array(length) };
+}
+
+/** Stores a successful scan of a value in range (see `rangeReason`) and its double at `index`. */
+export function storeDecimal(column: DecimalColumn, index: number, scan: DecimalScan, value: number): void {
+  column.value[index] = value;
+  column.mantissa[index] = scan.significantCount > 15 ? -1 : scan.mantissa;
+  column.exponent[index] = scan.exponent;
+}
+
+/**
  * Centers decimal texts exactly: picks a short decimal offset near the middle of the data and returns,
  * for each text, the double nearest to (value - offset) computed exactly in decimal before the one
  * conversion. Fails with the index of the first text that is not a decimal number (see parseDecimal
@@ -61,54 +87,80 @@ const TWO_POW_53 = 9007199254740992;
 export function centerDecimals(texts: readonly string[]): CenterDecimalsResult {
   const n = texts.length;
   // Scan results live in typed arrays (one reused scan record), so a million rows allocate no objects.
-  const negative = new Uint8Array(n);
-  const mantissa = new Float64Array(n);
-  const significantCount = new Int32Array(n);
-  const exponent = new Int32Array(n);
+  const column = decimalColumn(n);
   const scan = emptyScan();
-  let min = Infinity;
-  let max = -Infinity;
-  let scale = Infinity;
   for (let i = 0; i < n; i++) {
     const scanned = scanDecimal(texts[i], scan);
     if (typeof scanned === "string") return { ok: false, index: i, reason: scanned };
     const value = scanValue(texts[i], scan);
     const problem = rangeReason(texts[i], scan, value);
     if (problem !== undefined) return { ok: false, index: i, reason: problem };
-    negative[i] = scan.negative ? 1 : 0;
-    mantissa[i] = scan.mantissa;
-    significantCount[i] = scan.significantCount;
-    exponent[i] = scan.exponent;
-    if (scan.significantCount > 0 && scan.exponent < scale) scale = scan.exponent;
+    storeDecimal(column, i, scan, value);
+  }
+  const all = new Int32Array(n);
+  for (let i = 0; i < n; i++) all[i] = i;
+  return centerDecimalColumn(column, all, (i) => texts[i]);
+}
+
+/**
+ * As {@link centerDecimals}, for the entries `rows` of a column of values scanned earlier: the same offset
+ * and, bit for bit, the same centred values as centring their texts. `textOf(row)` gives a value's text as
+ * written; it is read only where exact integer arithmetic in doubles does not suffice (more than 15
+ * significant digits or a scale beyond 10^22: the BigInt path), for the offset when all values are equal,
+ * and for a failure's sentence. A failure's `index` is a position in `rows`.
+ */
+export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<number>, textOf: (row: number) => string): CenterDecimalsResult {
+  const n = rows.length;
+  const { value: doubles, mantissa, exponent } = column;
+  let min = Infinity;
+  let max = -Infinity;
+  let scale = Infinity;
+  for (let i = 0; i < n; i++) {
+    const row = rows[i]!;
+    const value = doubles[row]!;
+    if (mantissa[row] !== 0 && exponent[row]! < scale) scale = exponent[row]!;
     if (value < min) min = value;
     if (value > max) max = value;
   }
-  const offset = chooseOffset(texts[0], min, max);
+  const offset = chooseOffset(n > 0 ? textOf(rows[0]!) : undefined, min, max);
   const offsetText = formatDecimal(offset.negative, offset.digits, offset.exponent);
   if (offset.digits !== "" && offset.exponent < scale) scale = offset.exponent;
   if (scale === Infinity) scale = 0;
 
   const offsetScaled = scaledNumber(offset.negative, offset.mantissa, offset.digits.length, offset.exponent - scale);
-  const fastScale = Math.abs(scale) <= 22;
+  const fastScale = Math.abs(scale) <= 22 && !Number.isNaN(offsetScaled);
   const power = fastScale ? EXACT_POWERS_OF_TEN[Math.abs(scale)] : NaN;
   const values = new Float64Array(n);
   let offsetBig: bigint | undefined;
+  const scan = emptyScan();
   for (let i = 0; i < n; i++) {
+    const row = rows[i]!;
     let result = NaN;
-    const scaled = scaledNumber(negative[i] === 1, mantissa[i], significantCount[i], exponent[i] - scale);
-    if (fastScale && !Number.isNaN(scaled) && !Number.isNaN(offsetScaled)) {
-      const difference = scaled - offsetScaled;
-      if (difference === 0) result = 0;
-      else if (Math.abs(difference) < TWO_POW_53) result = scale >= 0 ? difference * power : difference / power;
+    if (fastScale) {
+      // ±mantissa × 10^shift as an exact double integer (scaledNumber, inlined for the common case).
+      const m = mantissa[row]!;
+      const shift = exponent[row]! - scale;
+      let scaled = NaN;
+      if (m === 0) scaled = 0;
+      else if (m > 0 && shift <= 22) {
+        const product = m * EXACT_POWERS_OF_TEN[shift];
+        if (product < TWO_POW_53) scaled = doubles[row]! < 0 ? -product : product;
+      }
+      if (!Number.isNaN(scaled)) {
+        const difference = scaled - offsetScaled;
+        if (difference === 0) result = 0;
+        else if (Math.abs(difference) < TWO_POW_53) result = scale >= 0 ? difference * power : difference / power;
+      }
     }
     if (Number.isNaN(result)) {
       offsetBig ??= scaledBigInt(offset.negative, offset.digits, offset.exponent - scale);
-      scanDecimal(texts[i], scan);
-      const difference = scaledBigInt(scan.negative, significantDigits(texts[i], scan), scan.exponent - scale) - offsetBig;
+      const text = textOf(row);
+      scanDecimal(text, scan);
+      const difference = scaledBigInt(scan.negative, significantDigits(text, scan), scan.exponent - scale) - offsetBig;
       result = difference === 0n ? 0 : Number(`${difference}e${scale}`);
     }
     if (!Number.isFinite(result)) {
-      return { ok: false, index: i, reason: `${texts[i]} minus the offset ${offsetText} is too large for a finite double` };
+      return { ok: false, index: i, reason: `${textOf(row)} minus the offset ${offsetText} is too large for a finite double` };
     }
     values[i] = result;
   }

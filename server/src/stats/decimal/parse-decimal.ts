@@ -71,16 +71,20 @@ const MAX_EXPONENT_MAGNITUDE = 1e9;
  * Scans a decimal text in one pass over its character codes. Returns the scan (written into `into` when
  * given, so that a caller scanning a million texts allocates nothing), or a sentence saying why the text
  * is not a decimal number. Used by parseDecimal and centerDecimals.
+ *
+ * With `start` and `end`, only the range `[start, end)` of `text` is scanned, exactly as if it were the
+ * substring `text.slice(start, end)`, except that `firstDigit` and `lastDigitEnd` are indices into the whole
+ * `text`: a caller can then check a cell of a large document in place, without a substring per cell.
  */
-export function scanDecimal(text: string, into: DecimalScan = emptyScan()): DecimalScan | string {
-  const length = text.length;
-  if (length === 0) return "the text is empty";
-  let i = 0;
+export function scanDecimal(text: string, into: DecimalScan = emptyScan(), start = 0, end = text.length): DecimalScan | string {
+  const length = end;
+  if (length <= start) return "the text is empty";
+  let i = start;
   let negative = false;
-  const first = text.charCodeAt(0);
+  const first = text.charCodeAt(start);
   if (first === 43 /* + */ || first === 45 /* - */) {
     negative = first === 45;
-    i = 1;
+    i = start + 1;
   }
   let mantissa = 0;
   let significantCount = 0;

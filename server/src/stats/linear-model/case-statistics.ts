@@ -18,6 +18,12 @@ export interface CaseStatistics {
   readonly studentized: (number | null)[];
 }
 
+/** The two residual scales as typed arrays, NaN where undefined (where `CaseStatistics` has null). */
+export interface CaseStatisticValues {
+  readonly standardized: Float64Array;
+  readonly studentized: Float64Array;
+}
+
 /**
  * Computes standardized and externally studentized residuals. `residualMsUsable` is false when the
  * residual variance is zero or undefined (then every value is null).
@@ -29,9 +35,24 @@ export function caseStatistics(
   residualDf: number,
   residualMsUsable: boolean,
 ): CaseStatistics {
+  const values = caseStatisticValues(residuals, leverage, residualSs, residualDf, residualMsUsable);
+  return { standardized: nullWhereNaN(values.standardized), studentized: nullWhereNaN(values.studentized) };
+}
+
+/**
+ * As {@link caseStatistics}, into typed arrays with NaN for an undefined value: a million observations
+ * then cost two flat arrays instead of two million boxed numbers in generic arrays.
+ */
+export function caseStatisticValues(
+  residuals: Float64Array,
+  leverage: Float64Array,
+  residualSs: number,
+  residualDf: number,
+  residualMsUsable: boolean,
+): CaseStatisticValues {
   const n = residuals.length;
-  const standardized: (number | null)[] = new Array(n).fill(null);
-  const studentized: (number | null)[] = new Array(n).fill(null);
+  const standardized = new Float64Array(n).fill(NaN);
+  const studentized = new Float64Array(n).fill(NaN);
   if (!residualMsUsable || residualDf <= 0) return { standardized, studentized };
   const s = Math.sqrt(residualSs / residualDf);
   for (let i = 0; i < n; i++) {
@@ -50,4 +71,14 @@ export function caseStatistics(
     }
   }
   return { standardized, studentized };
+}
+
+/** The values of a typed array as numbers, null where NaN (the contract's "undefined here"). */
+export function nullWhereNaN(values: Float64Array): (number | null)[] {
+  const out: (number | null)[] = new Array(values.length);
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    out[i] = v === v ? v : null;
+  }
+  return out;
 }

@@ -20,7 +20,7 @@
 
 import { fUpperTail } from "../distributions/f-distribution.js";
 import { balancedLayout, balancedModelCore } from "./balanced-fast-path.js";
-import { caseStatistics } from "./case-statistics.js";
+import { caseStatisticValues, nullWhereNaN } from "./case-statistics.js";
 import { cellModelCore } from "./cell-path.js";
 import { mean } from "./design-matrix.js";
 import { termEffectSize } from "./effect-sizes.js";
@@ -88,7 +88,11 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
   const explainedPlusResidual = core.modelSs + residualSs;
   const rSquared = explainedPlusResidual > 0 ? finiteOrNull(core.modelSs / explainedPlusResidual) : null;
   const residualSd = residualMs !== null ? Math.sqrt(residualMs) : null;
-  const cases = caseStatistics(core.residuals, core.leverage, residualSs, residualDf, testable);
+  const cases = caseStatisticValues(core.residuals, core.leverage, residualSs, residualDf, testable);
+  // The per-observation arrays of nullable numbers are built on first read only (a million boxed numbers
+  // cost far more than the typed arrays they come from), and kept.
+  let standardized: (number | null)[] | undefined;
+  let studentized: (number | null)[] | undefined;
 
   return {
     ok: true,
@@ -104,8 +108,12 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
     fitted: core.fitted,
     residuals: core.residuals,
     leverage: core.leverage,
-    standardized: cases.standardized,
-    studentized: cases.studentized,
+    get standardized(): (number | null)[] {
+      return (standardized ??= nullWhereNaN(cases.standardized));
+    },
+    get studentized(): (number | null)[] {
+      return (studentized ??= nullWhereNaN(cases.studentized));
+    },
     effectSizes: anova.map((row) => termEffectSize(row.source, row.ss, row.df, totalSs, residualSs, residualMs)),
     slopes: core.slopes.map((s) => ({
       covariate: s.covariate,
