@@ -11,6 +11,7 @@
  * chain of doublings). Only problems (rare) allocate.
  */
 import { CellFlag, type ExcludedMark, type RunRows, type SyntaxProblem } from "./ast.js";
+import { estimateLineFeeds } from "./line-density.js";
 import { isTopLevelKeywordAt } from "./top-level-keywords.js";
 
 /** The rows of one table body and the syntax problems found in it. */
@@ -97,13 +98,12 @@ function problem(message: string, start: number, end: number): SyntaxProblem {
 }
 
 /**
- * The capacity to grow a column to once `used` entries filled it after reading `source[start, p)`: the
- * density so far extrapolated to the whole range `[start, end)` plus a sixteenth, so a uniform table
- * regrows once; never less than 1.5 times the current capacity, so a skewed one still grows geometrically.
+ * The capacity to grow a column to once `used` entries filled it after `done` of at most `total` units
+ * (rows) were read: the density so far extrapolated to the whole plus a sixteenth, so a uniform table
+ * grows once; never less than 1.5 times the current capacity, so a skewed one still grows geometrically.
  */
-function grownCapacity(capacity: number, used: number, start: number, p: number, end: number): number {
-  const read = p - start;
-  const projected = read > 0 ? Math.ceil((used / read) * (end - start) * 1.0625) + 64 : 0;
+function grownCapacity(capacity: number, used: number, done: number, total: number): number {
+  const projected = done > 0 ? Math.ceil((used / done) * total * 1.0625) + 64 : 0;
   return Math.max(projected, capacity + (capacity >> 1) + 16);
 }
 
@@ -140,8 +140,9 @@ function trimmed8(data: Uint8Array, used: number): Uint8Array {
  */
 export function scanRunsTable(source: string, start: number, limit: number = source.length): RunsBodyScan {
   const end = Math.max(start, Math.min(limit, source.length));
-  // Start small (a small file must not pay for a large allocation) and extrapolate at the first regrowth.
-  let rowCap = Math.min(4096, Math.max(16, (end - start) >> 4));
+  // Rows: sized once from the line density. Cells: four a row to start with (a typical small design),
+  // then extrapolated from the cells per row read so far.
+  let rowCap = estimateLineFeeds(source, start, end) + 1;
   let cellCap = rowCap * 4;
   let rowStart: Int32Array = new Int32Array(rowCap);
   let rowEnd: Int32Array = new Int32Array(rowCap);
@@ -197,7 +198,7 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
 
     // A row. `kind` is the class of the character at `p` (a line break past the end of the range).
     if (rowCount === rowCap) {
-      rowCap = grownCapacity(rowCap, rowCount, start, p, end);
+      rowCap = rowCap + (rowCap >> 1) + 16;
       rowStart = grow32(rowStart, rowCap);
       rowEnd = grow32(rowEnd, rowCap);
       cellOffset = grow32(cellOffset, rowCap + 1);
@@ -250,7 +251,7 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
         continue;
       }
       if (cellCount === cellCap) {
-        cellCap = grownCapacity(cellCap, cellCount, start, p, end);
+        cellCap = grownCapacity(cellCap, cellCount, rowCount, Math.max(rowCap, rowCount + 1));
         cellStart = grow32(cellStart, cellCap);
         cellEnd = grow32(cellEnd, cellCap);
         cellFlags = grow8(cellFlags, cellCap);
@@ -329,9 +330,10 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
         lastContentEnd = mark.span.end;
         continue;
       }
+      // The flags stay `CellFlag.None`, the zero every new column starts with: not writing them spares a
+      // store per cell, and the memory pages of a column of unquoted cells are never touched.
       cellStart[cellCount] = s;
       cellEnd[cellCount] = p;
-      cellFlags[cellCount] = CellFlag.None;
       cellCount++;
       lastContentEnd = p;
     }

@@ -41,6 +41,16 @@ const BY_FIRST_CHAR: (readonly string[] | undefined)[] = (() => {
   return table;
 })();
 
+/**
+ * One byte per pair of ASCII characters, set where a top-level keyword starts with that pair: the first
+ * check of a line, which a run id (`r1`, `s17`...) fails at its second character with one table load.
+ */
+const FIRST_PAIRS: Uint8Array = (() => {
+  const table = new Uint8Array(128 * 128);
+  for (const word of TOP_LEVEL_KEYWORDS) table[(word.charCodeAt(0) << 7) | word.charCodeAt(1)] = 1;
+  return table;
+})();
+
 /** Letters, digits, `_` and `-`: the characters of a word for the keyword test. */
 function isWordChar(c: number): boolean {
   return (
@@ -55,11 +65,21 @@ function isWordChar(c: number): boolean {
  */
 export function isTopLevelKeywordAt(text: string, p: number): boolean {
   const c = text.charCodeAt(p);
-  const candidates = c < 128 ? BY_FIRST_CHAR[c] : undefined;
+  const d = text.charCodeAt(p + 1);
+  // Both characters ASCII and a pair some keyword starts with (past the end, charCodeAt gives NaN, which
+  // the bit operations read as 0: no keyword has that character).
+  if (!((c | d) < 128) || FIRST_PAIRS[(c << 7) | d] === 0) return false;
+  const candidates = BY_FIRST_CHAR[c];
   if (candidates === undefined) return false;
   for (let i = 0; i < candidates.length; i++) {
+    // Character by character (the first is known to match): cheaper than a `startsWith` call here, and
+    // a data row's id fails at its second character. Past the end of `text`, charCodeAt gives NaN,
+    // which matches nothing and is no word character.
     const word = candidates[i]!;
-    if (text.startsWith(word, p) && !isWordChar(text.charCodeAt(p + word.length))) return true;
+    const length = word.length;
+    let j = 1;
+    while (j < length && text.charCodeAt(p + j) === word.charCodeAt(j)) j++;
+    if (j === length && !isWordChar(text.charCodeAt(p + length))) return true;
   }
   return false;
 }
