@@ -1,7 +1,7 @@
 import type { Span } from "../../../grammar/src/ast.js";
 import { centerDecimalColumn } from "../stats/decimal/center-decimals.js";
 import { fitLinearModel } from "../stats/linear-model/fit-linear-model.js";
-import { groupMeans } from "../stats/linear-model/group-means.js";
+import { groupMeansOfGroupings } from "../stats/linear-model/group-means.js";
 import type { LinearModelInput, LinearModelResult, ModelFactor, ModelTerm } from "../stats/linear-model/types.js";
 import { type Design, type DesignRuns, type DesignTerm, ValueStatus } from "./design.js";
 import { responseSpan, responseText, runId } from "./design-runs.js";
@@ -54,16 +54,28 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const meanFactors = design.factors.flatMap((f, i) => (f.role === "fixed" || f.role === "block" ? [i] : []));
   const allFactors = [...new Set([...usedFactors, ...meanFactors])];
   const status = runs.responseStatus[responseIndex]!;
-  const selected: number[] = [];
-  // Plain loops over typed arrays (no closure per run): this runs once per response over every run.
-  const factorLevels = allFactors.map((f) => runs.levels[f]!);
-  const covariateStatus = usedCovariates.map((c) => runs.covariateStatus[c]!);
-  rows: for (let r = 0; r < runs.count; r++) {
-    if (runs.excluded[r] || status[r] !== ValueStatus.Measured) continue;
-    for (let q = 0; q < factorLevels.length; q++) if (factorLevels[q]![r]! < 0) continue rows;
-    for (let q = 0; q < covariateStatus.length; q++) if (covariateStatus[q]![r] !== ValueStatus.Measured) continue rows;
-    selected.push(r);
+  // Plain loops over typed arrays (no closure per run): this runs once per response over every run. The
+  // rows are collected in a typed array (read by the loops below) and copied once into the exactly sized
+  // plain array of the context: growing a plain array by a million pushes costs several times more.
+  const usedRows = new Int32Array(runs.count);
+  let used = 0;
+  // Runs left out are marked variable by variable (one tight loop per array), then collected in one pass.
+  const count = runs.count;
+  const left = new Uint8Array(count);
+  const excluded = runs.excluded;
+  for (let r = 0; r < count; r++) left[r] = excluded[r]! | (status[r] !== ValueStatus.Measured ? 1 : 0);
+  for (const f of allFactors) {
+    const levels = runs.levels[f]!;
+    for (let r = 0; r < count; r++) if (levels[r]! < 0) left[r] = 1;
   }
+  for (const c of usedCovariates) {
+    const known = runs.covariateStatus[c]!;
+    for (let r = 0; r < count; r++) if (known[r] !== ValueStatus.Measured) left[r] = 1;
+  }
+  for (let r = 0; r < count; r++) if (left[r] === 0) usedRows[used++] = r;
+  const rowsInFit = usedRows.subarray(0, used);
+  const selected: number[] = new Array<number>(used).fill(0);
+  for (let i = 0; i < used; i++) selected[i] = rowsInFit[i]!;
 
   const empty: ResponseAnalysis = {
     name: response.name,
@@ -88,7 +100,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
 
   // Centred from the values checked when the design was built; a text is read only where exact
   // arithmetic in doubles does not suffice (see centerDecimalColumn).
-  const centred = centerDecimalColumn(runs.responseValues[responseIndex]!, selected, (r) => responseText(runs, responseIndex, r));
+  const centred = centerDecimalColumn(runs.responseValues[responseIndex]!, rowsInFit, (r) => responseText(runs, responseIndex, r));
   if (!centred.ok) {
     const r = selected[centred.index]!;
     diagnostics.push(diagnostic("value-out-of-range", responseSpan(runs, responseIndex, r) ?? anchors.response, `This value of '${response.name}' cannot be analysed: ${centred.reason}`));
@@ -107,7 +119,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   // Level codes are compacted to the levels that occur among the selected runs, so that a declared but
   // unused level does not show up as an aliased column.
   const compact = new Map<number, { codes: Int32Array; levels: number[] }>();
-  for (const f of allFactors) compact.set(f, compactCodes(runs.levels[f]!, design.factors[f]!.levels.length, selected));
+  for (const f of allFactors) compact.set(f, compactCodes(runs.levels[f]!, design.factors[f]!.levels.length, rowsInFit));
 
   // Terms involving a factor seen at a single level cannot be estimated: drop them and say so.
   const terms: DesignTerm[] = [];
@@ -133,8 +145,8 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const covariates: { name: string; values: Float64Array }[] = [];
   for (const c of usedCovariates) {
     const stored = runs.covariateValues[c]!.value;
-    const values = new Float64Array(selected.length);
-    for (let i = 0; i < selected.length; i++) values[i] = stored[selected[i]!]!;
+    const values = new Float64Array(used);
+    for (let i = 0; i < used; i++) values[i] = stored[rowsInFit[i]!]!;
     const wide = largestMagnitudeIndex(values);
     if (wide >= 0) {
       diagnostics.push(diagnostic("value-out-of-range", anchors.response, `Covariate '${design.covariates[c]!.name}' has a value beyond about 1e150 (run ${selected[wide]! + 1}), whose square cannot be computed: change the covariate's unit.`));
@@ -251,7 +263,7 @@ export function extendResult(base: ResponseAnalysis, add: Partial<ResponseAnalys
  * order), and the declared level of each code. One pass writes the declared levels as codes and marks the
  * levels present; a second pass renumbers only when some declared level is absent.
  */
-function compactCodes(declared: Int32Array, levelCount: number, selected: readonly number[]): { codes: Int32Array; levels: number[] } {
+function compactCodes(declared: Int32Array, levelCount: number, selected: Int32Array): { codes: Int32Array; levels: number[] } {
   const n = selected.length;
   const codes = new Int32Array(n);
   const seen = new Uint8Array(levelCount);
@@ -286,10 +298,36 @@ function rawMeans(
   pooled: { ms: number | null; df: number } | null,
   confidence: number,
 ): LevelMean[] {
-  const out: LevelMean[] = [];
   const error = pooled ?? { ms: null, df: 0 };
-  const emit = (term: string, labels: readonly string[], codes: Int32Array) => {
-    for (const g of groupMeans(y, codes, labels.length, error, confidence)) {
+  // Every grouping is collected first and summarised in one fused pair of passes over y
+  // (groupMeansOfGroupings, bit-identical to one groupMeans per grouping), then emitted in this order.
+  const groupings: { term: string; labels: readonly string[]; codes: Int32Array; groupCount: number }[] = [];
+  for (const f of meanFactors) {
+    const c = compact.get(f)!;
+    const labels = c.levels.map((l) => design.factors[f]!.levels[l]!.name);
+    groupings.push({ term: design.factors[f]!.name, labels, codes: c.codes, groupCount: labels.length });
+  }
+  const fixed = meanFactors.filter((f) => design.factors[f]!.role === "fixed");
+  for (let i = 0; i < fixed.length; i++) {
+    for (let j = i + 1; j < fixed.length; j++) {
+      const a = compact.get(fixed[i]!)!;
+      const b = compact.get(fixed[j]!)!;
+      const labels: string[] = [];
+      for (const la of a.levels) for (const lb of b.levels) labels.push(`${design.factors[fixed[i]!]!.levels[la]!.name} x ${design.factors[fixed[j]!]!.levels[lb]!.name}`);
+      // Arrays held in locals: the engine does not hoist property loads out of a loop that stores into a
+      // typed array, and a million reloads cost more than the arithmetic.
+      const aCodes = a.codes;
+      const bCodes = b.codes;
+      const codes = new Int32Array(aCodes.length);
+      const bCount = b.levels.length;
+      for (let k = 0; k < codes.length; k++) codes[k] = aCodes[k]! * bCount + bCodes[k]!;
+      groupings.push({ term: `${design.factors[fixed[i]!]!.name} x ${design.factors[fixed[j]!]!.name}`, labels, codes, groupCount: labels.length });
+    }
+  }
+  const summaries = groupMeansOfGroupings(y, groupings, error, confidence);
+  const out: LevelMean[] = [];
+  groupings.forEach(({ term, labels }, q) => {
+    for (const g of summaries[q]!) {
       if (g.n === 0 || g.mean === null) continue;
       out.push({
         term,
@@ -301,24 +339,7 @@ function rawMeans(
         upper: g.upper === null ? null : g.upper + offset,
       });
     }
-  };
-  for (const f of meanFactors) {
-    const c = compact.get(f)!;
-    emit(design.factors[f]!.name, c.levels.map((l) => design.factors[f]!.levels[l]!.name), c.codes);
-  }
-  const fixed = meanFactors.filter((f) => design.factors[f]!.role === "fixed");
-  for (let i = 0; i < fixed.length; i++) {
-    for (let j = i + 1; j < fixed.length; j++) {
-      const a = compact.get(fixed[i]!)!;
-      const b = compact.get(fixed[j]!)!;
-      const labels: string[] = [];
-      for (const la of a.levels) for (const lb of b.levels) labels.push(`${design.factors[fixed[i]!]!.levels[la]!.name} x ${design.factors[fixed[j]!]!.levels[lb]!.name}`);
-      const codes = new Int32Array(a.codes.length);
-      const bCount = b.levels.length;
-      for (let k = 0; k < codes.length; k++) codes[k] = a.codes[k]! * bCount + b.codes[k]!;
-      emit(`${design.factors[fixed[i]!]!.name} x ${design.factors[fixed[j]!]!.name}`, labels, codes);
-    }
-  }
+  });
   return out;
 }
 

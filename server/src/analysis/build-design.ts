@@ -712,12 +712,14 @@ function findLevel(source: string, rows: RunRows, cell: number, names: readonly 
   if (rows.cellFlags[cell] === 0 && names.length <= SCAN_LEVELS) {
     const start = rows.cellStart[cell]!;
     const length = rows.cellEnd[cell]! - start;
-    // Compared code unit by code unit: `startsWith` with a position is a runtime call, several times
-    // slower per cell on a large source.
+    // Compared code unit by code unit (`startsWith` with a position is a runtime call, several times
+    // slower per cell on a large source), last unit first: level names often share a prefix ("a1", "a2";
+    // "ramp-fast", "ramp-slow") and differ at the end, so most mismatches cost one comparison.
+    const last = length > 0 ? source.charCodeAt(start + length - 1) : -1;
     levels: for (let i = 0; i < names.length; i++) {
       const name = names[i]!;
-      if (name.length !== length) continue;
-      for (let j = 0; j < length; j++) if (name.charCodeAt(j) !== source.charCodeAt(start + j)) continue levels;
+      if (name.length !== length || (length > 0 && name.charCodeAt(length - 1) !== last)) continue;
+      for (let j = 0; j < length - 1; j++) if (name.charCodeAt(j) !== source.charCodeAt(start + j)) continue levels;
       return i;
     }
     return -1;

@@ -49,20 +49,19 @@ export function balancedLayout(input: LinearModelInput): BalancedLayout | null {
   for (const mask of termMasks) {
     for (let sub = (mask - 1) & mask; sub > 0; sub = (sub - 1) & mask) if (!maskSet.has(sub)) return null;
   }
+  // Factor by factor (a mixed-radix accumulation over typed arrays held in locals), then one counting pass.
   const cellOfRun = new Int32Array(n);
-  const counts = new Int32Array(cellCount);
-  for (let i = 0; i < n; i++) {
-    let cell = 0;
-    let stride = 1;
-    for (let q = 0; q < factors.length; q++) {
-      cell += input.factors[factors[q]!]!.codes[i]! * stride;
-      stride *= levels[q]!;
-    }
-    cellOfRun[i] = cell;
-    counts[cell]!++;
+  let stride = 1;
+  for (let q = 0; q < factors.length; q++) {
+    const codes = input.factors[factors[q]!]!.codes;
+    for (let i = 0; i < n; i++) cellOfRun[i]! += codes[i]! * stride;
+    stride *= levels[q]!;
   }
+  const counts = new Int32Array(cellCount);
+  for (let i = 0; i < n; i++) counts[cellOfRun[i]!]!++;
   const perCell = counts[0]!;
-  if (perCell < 1 || counts.some((c) => c !== perCell)) return null;
+  if (perCell < 1) return null;
+  for (let c = 1; c < cellCount; c++) if (counts[c] !== perCell) return null;
   return { factors, levels, cellOfRun, cellCount, perCell, termMasks };
 }
 

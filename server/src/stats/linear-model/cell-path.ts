@@ -60,18 +60,39 @@ export function cellLayout(input: LinearModelInput): CellLayout | null {
   const firstRun: number[] = [];
   const dense = keySpace <= DENSE_KEYS ? new Int32Array(keySpace).fill(-1) : null;
   const sparse = dense ? null : new Map<number, number>();
-  for (let i = 0; i < n; i++) {
-    let key = 0;
-    for (let q = 0; q < codes.length; q++) key = key * radix[q]! + codes[q]![i]!;
-    let cell = dense ? dense[key]! : (sparse!.get(key) ?? -1);
-    if (cell < 0) {
-      cell = firstRun.length;
-      firstRun.push(i);
-      if (firstRun.length >= n) return null;
-      if (dense) dense[key] = cell;
-      else sparse!.set(key, cell);
+  if (dense) {
+    // Keys factor by factor over typed arrays held in locals (they fit an Int32Array: keySpace <= 2^22),
+    // then one pass numbering the cells in order of first appearance.
+    const keys = cellOfRun;
+    for (let q = 0; q < codes.length; q++) {
+      const factorCodes = codes[q]!;
+      const r = radix[q]!;
+      for (let i = 0; i < n; i++) keys[i] = keys[i]! * r + factorCodes[i]!;
     }
-    cellOfRun[i] = cell;
+    for (let i = 0; i < n; i++) {
+      const key = keys[i]!;
+      let cell = dense[key]!;
+      if (cell < 0) {
+        cell = firstRun.length;
+        firstRun.push(i);
+        if (firstRun.length >= n) return null;
+        dense[key] = cell;
+      }
+      keys[i] = cell;
+    }
+  } else {
+    for (let i = 0; i < n; i++) {
+      let key = 0;
+      for (let q = 0; q < codes.length; q++) key = key * radix[q]! + codes[q]![i]!;
+      let cell = sparse!.get(key) ?? -1;
+      if (cell < 0) {
+        cell = firstRun.length;
+        firstRun.push(i);
+        if (firstRun.length >= n) return null;
+        sparse!.set(key, cell);
+      }
+      cellOfRun[i] = cell;
+    }
   }
   const cellCount = firstRun.length;
   const cellCodes = input.factors.map((f, k) => {

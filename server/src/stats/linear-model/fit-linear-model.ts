@@ -40,7 +40,7 @@ export function fitLinearModel(input: LinearModelInput): LinearModelResult | Mod
   if (n === 1) {
     return { ok: false, code: "single-observation", reason: "There is a single observation; an analysis of variance needs at least two." };
   }
-  if (y.every((v) => v === y[0])) {
+  if (allEqual(y)) {
     return { ok: false, code: "zero-variance", reason: `All ${n} observations have the same value; there is no variation to analyse.` };
   }
   const layout = balancedLayout(input);
@@ -135,6 +135,13 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
     aliased: core.aliased,
     notes,
   };
+}
+
+/** Whether every value equals the first (a plain loop: no callback per observation). */
+function allEqual(y: Float64Array): boolean {
+  const first = y[0];
+  for (let i = 1; i < y.length; i++) if (y[i] !== first) return false;
+  return true;
 }
 
 function finiteOrNull(v: number | null): number | null {

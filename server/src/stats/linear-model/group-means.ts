@@ -38,8 +38,72 @@ export function groupMeans(
   pooled: PooledError,
   confidence = 0.95,
 ): GroupMean[] {
-  const counts = new Float64Array(groupCount);
-  const sums = new Float64Array(groupCount);
+  return groupMeansOfGroupings(y, [{ codes, groupCount }], pooled, confidence)[0]!;
+}
+
+/** One way of grouping the observations: `codes[i]` is observation i's group in `0..groupCount-1`. */
+export interface Grouping {
+  readonly codes: Int32Array;
+  readonly groupCount: number;
+}
+
+/**
+ * {@link groupMeans} for several groupings of the same observations, with the same results bit for bit
+ * (each group's sums accumulated in observation order); the interval's t quantile is computed once.
+ */
+export function groupMeansOfGroupings(y: Float64Array, groupings: readonly Grouping[], pooled: PooledError, confidence = 0.95): GroupMean[][] {
+  const k = groupings.length;
+  // All groupings' accumulators in one array each, grouping q's groups from offsets[q].
+  const offsets = new Int32Array(k + 1);
+  for (let q = 0; q < k; q++) offsets[q + 1] = offsets[q]! + Math.max(0, groupings[q]!.groupCount);
+  const total = offsets[k]!;
+  const counts = new Float64Array(total);
+  const means = new Float64Array(total);
+  const corrections = new Float64Array(total);
+  const squares = new Float64Array(total);
+  for (let q = 0; q < k; q++) {
+    const { codes, groupCount } = groupings[q]!;
+    const from = offsets[q]!;
+    const to = offsets[q + 1]!;
+    accumulateGroups(y, codes, groupCount, counts.subarray(from, to), means.subarray(from, to), corrections.subarray(from, to), squares.subarray(from, to));
+  }
+  const usable =
+    pooled.ms !== null && Number.isFinite(pooled.ms) && pooled.ms >= 0 && pooled.df > 0 && confidence > 0 && confidence < 1;
+  const t = usable ? tQuantile(1 - (1 - confidence) / 2, pooled.df) : Number.NaN;
+  return groupings.map((grouping, q) => {
+    const out: GroupMean[] = [];
+    for (let g = 0; g < grouping.groupCount; g++) {
+      const at = offsets[q]! + g;
+      const n = counts[at]!;
+      if (n === 0) {
+        out.push({ group: g, n: 0, mean: null, sd: null, lower: null, upper: null });
+        continue;
+      }
+      const c = corrections[at]!;
+      const mean = means[at]! + c / n;
+      // Corrected two-pass variance (Chan, Golub & LeVeque 1983): (sum d^2 - (sum d)^2 / n) / (n - 1).
+      const sd = n > 1 ? Math.sqrt(Math.max(0, squares[at]! - (c * c) / n) / (n - 1)) : null;
+      const half = usable && Number.isFinite(t) ? t * Math.sqrt(pooled.ms! / n) : null;
+      out.push({ group: g, n, mean, sd, lower: half !== null ? mean - half : null, upper: half !== null ? mean + half : null });
+    }
+    return out;
+  });
+}
+
+/**
+ * The two passes of one grouping over typed arrays held in locals: counts, means (first pass), then the
+ * corrections and squared deviations about those means (second pass), as described in the module comment.
+ */
+function accumulateGroups(
+  y: Float64Array,
+  codes: Int32Array,
+  groupCount: number,
+  counts: Float64Array,
+  means: Float64Array,
+  corrections: Float64Array,
+  squares: Float64Array,
+): void {
+  const sums = new Float64Array(Math.max(0, groupCount));
   const m = Math.min(y.length, codes.length);
   for (let i = 0; i < m; i++) {
     const g = codes[i]!;
@@ -47,11 +111,7 @@ export function groupMeans(
     counts[g]!++;
     sums[g]! += y[i]!;
   }
-  const means = new Float64Array(groupCount);
   for (let g = 0; g < groupCount; g++) means[g] = counts[g]! > 0 ? sums[g]! / counts[g]! : 0;
-  // Second pass: correct the mean and accumulate squared deviations.
-  const corrections = new Float64Array(groupCount);
-  const squares = new Float64Array(groupCount);
   for (let i = 0; i < m; i++) {
     const g = codes[i]!;
     if (g < 0 || g >= groupCount) continue;
@@ -59,24 +119,6 @@ export function groupMeans(
     corrections[g]! += d;
     squares[g]! += d * d;
   }
-  const usable =
-    pooled.ms !== null && Number.isFinite(pooled.ms) && pooled.ms >= 0 && pooled.df > 0 && confidence > 0 && confidence < 1;
-  const t = usable ? tQuantile(1 - (1 - confidence) / 2, pooled.df) : Number.NaN;
-  const out: GroupMean[] = [];
-  for (let g = 0; g < groupCount; g++) {
-    const n = counts[g]!;
-    if (n === 0) {
-      out.push({ group: g, n: 0, mean: null, sd: null, lower: null, upper: null });
-      continue;
-    }
-    const c = corrections[g]!;
-    const mean = means[g]! + c / n;
-    // Corrected two-pass variance (Chan, Golub & LeVeque 1983): (sum d^2 - (sum d)^2 / n) / (n - 1).
-    const sd = n > 1 ? Math.sqrt(Math.max(0, squares[g]! - (c * c) / n) / (n - 1)) : null;
-    const half = usable && Number.isFinite(t) ? t * Math.sqrt(pooled.ms! / n) : null;
-    out.push({ group: g, n, mean, sd, lower: half !== null ? mean - half : null, upper: half !== null ? mean + half : null });
-  }
-  return out;
 }
 
 /**
