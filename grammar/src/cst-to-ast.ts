@@ -426,7 +426,8 @@ function runsTable(b: Builder, node: RunsTableCstNode): RunsTable | undefined {
   const scan = payload !== undefined && payload.end === bodyEnd ? payload : scanRunsTable(b.source, bodyStart, bodyEnd);
   for (const p of runsBodyProblems(scan, headerHasPipe)) b.problems.push(p);
   const rows = scan.rows;
-  for (let r = 0; r < rows.count; r++) end = Math.max(end, rows.rowEnd[r]!);
+  // Rows are in text order and each ends before the next starts, so the last row ends furthest.
+  if (rows.count > 0) end = Math.max(end, rows.rowEnd[rows.count - 1]!);
   return {
     kind: "runs",
     span: { start: keyword.startOffset, end },
