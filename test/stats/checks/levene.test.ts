@@ -100,6 +100,38 @@ describe("leveneTests (shared passes, selected medians)", () => {
     assert.deepEqual(both.brownForsythe, leveneTest(y, codes, levels.length, "median"));
   });
 
+  it("the histogram path for many values (with and without the caller's totals) equals the reference on awkward data", () => {
+    const n = 40_000;
+    let seed = 12345;
+    const next = () => ((seed = (seed * 48271) % 2147483647), seed / 2147483647);
+    const shapes: Record<string, (i: number, g: number) => number> = {
+      "heavy ties": () => Math.round(next() * 8) / 4,
+      "far outliers": (i) => (i % 997 === 0 ? 1e9 : next()),
+      "one constant group": (_, g) => (g === 0 ? 2.5 : next() * g),
+      "skewed": () => -Math.log(next() + 1e-12),
+      "two values": () => (next() < 0.5 ? -1 : 1),
+      "infinities": (i) => (i === 7 ? Infinity : i === 11 ? -Infinity : next()),
+      "a NaN": (i) => (i === 5 ? Number.NaN : next()),
+      "all equal": () => 3,
+      "tiny spread on a large value": () => 1e6 + Math.round(next() * 4) * 1e-9,
+    };
+    for (const [name, shape] of Object.entries(shapes)) {
+      for (const count of [1, 2, 5, 40]) {
+        const codes = Array.from({ length: n }, (_, i) => (i * 7 + (i >> 3)) % count);
+        const y = codes.map((g, i) => shape(i, g));
+        const sizes = new Array<number>(count).fill(0);
+        const sums = new Array<number>(count).fill(0);
+        codes.forEach((g, i) => {
+          sizes[g]!++;
+          sums[g]! += y[i]!;
+        });
+        const expected = { levene: referenceLevene(y, codes, count, "mean"), brownForsythe: referenceLevene(y, codes, count, "median") };
+        assert.deepEqual(leveneTests(Float64Array.from(y), Int32Array.from(codes), count), expected, `${name}, ${count} groups`);
+        assert.deepEqual(leveneTests(Float64Array.from(y), Int32Array.from(codes), count, { sizes, sums }), expected, `${name}, ${count} groups, totals`);
+      }
+    }
+  });
+
   it("medians of groups far larger than the selection's sample size equal the sorted medians", () => {
     const n = 50_001;
     const y = new Float64Array(n);

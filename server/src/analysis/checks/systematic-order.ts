@@ -56,23 +56,27 @@ export function orderClustering(levels: ArrayLike<number>, levelCount?: number):
   const sizes = new Int32Array(count);
   // Rank sums are whole numbers below 2^53 for any file that fits in memory, so they are exact.
   const rankSums = new Float64Array(count);
-  // Levels in order of first appearance: the sum of R_i^2 / n_i below is formed in that order.
-  const order = new Int32Array(count);
-  let k = 0;
   let n = 0;
   for (let r = 0; r < levels.length; r++) {
     const level = levels[r]!;
     if (level < 0) continue;
     if (level >= count || level !== Math.floor(level)) return levelCount === undefined ? undefined : orderClustering(levels);
     n++;
-    if (sizes[level] === 0) order[k++] = level;
     sizes[level]!++;
     rankSums[level] += n;
   }
+  let k = 0;
+  for (let level = 0; level < count; level++) if (sizes[level]! > 0) k++;
   if (k < 2 || n <= k) return undefined;
+  // The sum of R_i^2 / n_i is formed in order of the levels' first appearance (as a map of the levels
+  // would iterate them); every level usually appears within the first few runs.
+  const seen = new Uint8Array(count);
   let sum = 0;
-  for (let j = 0; j < k; j++) {
-    const level = order[j]!;
+  for (let r = 0, found = 0; found < k; r++) {
+    const level = levels[r]!;
+    if (level < 0 || seen[level]) continue;
+    seen[level] = 1;
+    found++;
     sum += (rankSums[level]! * rankSums[level]!) / sizes[level]!;
   }
   // H = 12 / (n (n + 1)) * sum(R_i^2 / n_i) - 3 (n + 1); clamped at 0 against rounding.

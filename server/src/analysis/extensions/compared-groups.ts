@@ -1,5 +1,5 @@
 import type { ResponseContext } from "../analyze-response.js";
-import { type GroupSummary, summarizeGroups } from "../../stats/comparisons/group-summary.js";
+import { type GroupSummary, summarizeGroupsWithSums } from "../../stats/comparisons/group-summary.js";
 
 /** The groups of one compared term: a factor's levels or an interaction's cells, with labels and summaries. */
 export interface ComparedGroups {
@@ -11,6 +11,8 @@ export interface ComparedGroups {
   readonly codes: Int32Array;
   /** Summaries of the centred values (add `context.offset` to a mean for the response scale). */
   readonly summaries: readonly GroupSummary[];
+  /** Per group, the plain sum of its centred values in observation order (for the Levene test). */
+  readonly sums: Float64Array;
   /** Declared level index per group for a single factor (to find the control and numeric values). */
   readonly declared: readonly number[];
 }
@@ -61,12 +63,12 @@ function formGroups(context: ResponseContext, factors: readonly number[]): Compa
   let codes: Int32Array;
   if (parts.length === 1) codes = parts[0]!.codes;
   else {
-    codes = new Int32Array(context.y.length);
-    parts.forEach((p, j) => {
+    codes = parts[0]!.codes.slice();
+    for (let j = 1; j < parts.length; j++) {
       const size = sizes[j]!;
-      const own = p!.codes;
+      const own = parts[j]!.codes;
       for (let i = 0; i < codes.length; i++) codes[i] = codes[i]! * size + own[i]!;
-    });
+    }
   }
   const labels: string[] = [];
   const declared: number[] = [];
@@ -82,5 +84,6 @@ function formGroups(context: ResponseContext, factors: readonly number[]): Compa
     labels.push(names.join(" x "));
   }
   const term = factors.map((f) => context.design.factors[f]!.name).join(" x ");
-  return { term, factors, labels, codes, summaries: summarizeGroups(context.y, codes, count), declared };
+  const { summaries, sums } = summarizeGroupsWithSums(context.y, codes, count);
+  return { term, factors, labels, codes, summaries, sums, declared };
 }

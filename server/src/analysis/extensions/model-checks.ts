@@ -60,7 +60,7 @@ export const modelChecksExtension: ResponseExtension = (context) => {
       // no within-cell spread; they need a cell with at least three runs.
       const pairsOnly = present.every(([s]) => s.n <= 2);
       // Both tests share their passes over the runs (levene.ts).
-      const spread = pairsOnly ? null : leveneTests(context.y, cells.codes, cells.summaries.length);
+      const spread = pairsOnly ? null : leveneTests(context.y, cells.codes, cells.summaries.length, { sizes: cells.summaries.map((s) => s.n), sums: cells.sums });
       const levene = spread?.levene ?? null;
       const bf = spread?.brownForsythe ?? null;
       const bartlett = bartlettTest(cells.summaries);

@@ -12,6 +12,14 @@ export interface GroupSummary {
 
 /** Summaries of groups 0..count-1 (codes[i] is observation i's group; -1 leaves it out). Empty groups have n = 0, mean 0. */
 export function summarizeGroups(y: ArrayLike<number>, codes: ArrayLike<number>, count: number): GroupSummary[] {
+  return summarizeGroupsWithSums(y, codes, count).summaries;
+}
+
+/**
+ * `summarizeGroups`, and each group's plain sum of values in observation order (the first pass's), which
+ * the Levene test's group means are formed from: a caller holding both saves a pass over the data.
+ */
+export function summarizeGroupsWithSums(y: ArrayLike<number>, codes: ArrayLike<number>, count: number): { summaries: GroupSummary[]; sums: Float64Array } {
   const n = new Float64Array(count);
   const sum = new Float64Array(count);
   for (let i = 0; i < y.length; i++) {
@@ -30,10 +38,11 @@ export function summarizeGroups(y: ArrayLike<number>, codes: ArrayLike<number>, 
     ss[g] += d * d;
     correction[g] += d;
   }
-  return Array.from({ length: count }, (_, g) => {
+  const summaries = Array.from({ length: count }, (_, g) => {
     const size = n[g]!;
     // Corrected two-pass formula (Chan, Golub & LeVeque 1983): subtract the squared sum of deviations.
     const variance = size > 1 ? Math.max(0, (ss[g]! - (correction[g]! * correction[g]!) / size) / (size - 1)) : null;
     return { n: size, mean: mean[g]! + (size > 0 ? correction[g]! / size : 0), variance };
   });
+  return { summaries, sums: sum };
 }
