@@ -85,3 +85,20 @@ describe("duplicateRunIds", () => {
     assert.deepEqual([...found.priors], [0, 1]);
   });
 });
+
+describe("duplicateRunIds on numbered run sheets", () => {
+  it("finds no repeats in increasing numbered ids, and still finds them when the numbering repeats or is padded", () => {
+    const check = (texts: string[]) => {
+      const { source, rows, idCells } = rowsOf(texts.map((text) => ({ text, quoted: false, missing: false })));
+      const found = duplicateRunIds(source, rows, idCells);
+      assert.deepEqual({ rows: [...found.rows], priors: [...found.priors] }, reference(source, rows, idCells));
+    };
+    check(Array.from({ length: 5000 }, (_, i) => `r${i + 1}`));
+    check(["T-001", "T-002", "T-010", "U-011"]);
+    // Equal numbers written differently (not increasing, so the table decides): r1 and r01 differ.
+    check(["r1", "r01", "r2", "r1"]);
+    check(["r1", "r2", "r3", "r2", "s3"]);
+    check(["9", "10", "10"]);
+    check(["r1234567890123456", "r1234567890123457", "r1234567890123456"]);
+  });
+});

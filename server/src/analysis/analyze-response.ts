@@ -55,10 +55,8 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const allFactors = [...new Set([...usedFactors, ...meanFactors])];
   const status = runs.responseStatus[responseIndex]!;
   // Plain loops over typed arrays (no closure per run): this runs once per response over every run. The
-  // rows are collected in a typed array (read by the loops below) and copied once into the exactly sized
-  // plain array of the context: growing a plain array by a million pushes costs several times more.
-  const usedRows = new Int32Array(runs.count);
-  let used = 0;
+  // rows are counted, then written into an exactly sized plain array (growing one by a million pushes
+  // costs several times more).
   // Runs left out are marked variable by variable (one tight loop per array), then collected in one pass.
   const count = runs.count;
   const left = new Uint8Array(count);
@@ -72,10 +70,10 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     const known = runs.covariateStatus[c]!;
     for (let r = 0; r < count; r++) if (known[r] !== ValueStatus.Measured) left[r] = 1;
   }
-  for (let r = 0; r < count; r++) if (left[r] === 0) usedRows[used++] = r;
-  const rowsInFit = usedRows.subarray(0, used);
+  let used = 0;
+  for (let r = 0; r < count; r++) used += 1 - left[r]!;
   const selected: number[] = new Array<number>(used).fill(0);
-  for (let i = 0; i < used; i++) selected[i] = rowsInFit[i]!;
+  for (let r = 0, i = 0; r < count; r++) if (left[r] === 0) selected[i++] = r;
 
   const empty: ResponseAnalysis = {
     name: response.name,
@@ -100,7 +98,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
 
   // Centred from the values checked when the design was built; a text is read only where exact
   // arithmetic in doubles does not suffice (see centerDecimalColumn).
-  const centred = centerDecimalColumn(runs.responseValues[responseIndex]!, rowsInFit, (r) => responseText(runs, responseIndex, r));
+  const centred = centerDecimalColumn(runs.responseValues[responseIndex]!, selected, (r) => responseText(runs, responseIndex, r));
   if (!centred.ok) {
     const r = selected[centred.index]!;
     diagnostics.push(diagnostic("value-out-of-range", responseSpan(runs, responseIndex, r) ?? anchors.response, `This value of '${response.name}' cannot be analysed: ${centred.reason}`));
@@ -119,7 +117,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   // Level codes are compacted to the levels that occur among the selected runs, so that a declared but
   // unused level does not show up as an aliased column.
   const compact = new Map<number, { codes: Int32Array; levels: number[] }>();
-  for (const f of allFactors) compact.set(f, compactCodes(runs.levels[f]!, design.factors[f]!.levels.length, rowsInFit));
+  for (const f of allFactors) compact.set(f, compactCodes(runs.levels[f]!, design.factors[f]!.levels.length, selected));
 
   // Terms involving a factor seen at a single level cannot be estimated: drop them and say so.
   const terms: DesignTerm[] = [];
@@ -146,7 +144,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   for (const c of usedCovariates) {
     const stored = runs.covariateValues[c]!.value;
     const values = new Float64Array(used);
-    for (let i = 0; i < used; i++) values[i] = stored[rowsInFit[i]!]!;
+    for (let i = 0; i < used; i++) values[i] = stored[selected[i]!]!;
     const wide = largestMagnitudeIndex(values);
     if (wide >= 0) {
       diagnostics.push(diagnostic("value-out-of-range", anchors.response, `Covariate '${design.covariates[c]!.name}' has a value beyond about 1e150 (run ${selected[wide]! + 1}), whose square cannot be computed: change the covariate's unit.`));
@@ -263,7 +261,7 @@ export function extendResult(base: ResponseAnalysis, add: Partial<ResponseAnalys
  * order), and the declared level of each code. One pass writes the declared levels as codes and marks the
  * levels present; a second pass renumbers only when some declared level is absent.
  */
-function compactCodes(declared: Int32Array, levelCount: number, selected: Int32Array): { codes: Int32Array; levels: number[] } {
+function compactCodes(declared: Int32Array, levelCount: number, selected: readonly number[]): { codes: Int32Array; levels: number[] } {
   const n = selected.length;
   const codes = new Int32Array(n);
   const seen = new Uint8Array(levelCount);

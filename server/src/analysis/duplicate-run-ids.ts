@@ -30,6 +30,7 @@ const PARTITION_ROWS = 2048;
  */
 export function duplicateRunIds(source: string, rows: RunRows, idCells: Int32Array): DuplicateRunIds {
   const count = idCells.length;
+  if (increasingNumberedIds(source, rows, idCells)) return { rows: new Int32Array(0), priors: new Int32Array(0) };
   const hashes = new Int32Array(count);
   let withId = 0;
   for (let r = 0; r < count; r++) {
@@ -98,6 +99,37 @@ export function duplicateRunIds(source: string, rows: RunRows, idCells: Int32Arr
     result.priors[d] = duplicates[2 * byRow[d]! + 1]!;
   }
   return result;
+}
+
+/**
+ * True when every id is unquoted and ends in a number (its trailing digits, at most 15) that grows from
+ * row to row, as in a run sheet numbered r1, r2, ... or T-001, T-002, ...: then no two ids are equal, since
+ * equal ids have the same trailing digits and so the same number. One pass over the ids' last characters
+ * and no table: the usual run sheet costs nothing more.
+ */
+function increasingNumberedIds(source: string, rows: RunRows, idCells: Int32Array): boolean {
+  let previous = -1;
+  for (let r = 0; r < idCells.length; r++) {
+    const cell = idCells[r]!;
+    if (cell < 0) continue;
+    if (rows.cellFlags[cell] !== 0) return false;
+    const start = rows.cellStart[cell]!;
+    let i = rows.cellEnd[cell]!;
+    let value = 0;
+    let place = 1;
+    let digits = 0;
+    while (i > start) {
+      const code = source.charCodeAt(i - 1);
+      if (code < 48 || code > 57) break;
+      if (++digits > 15) return false;
+      value += (code - 48) * place;
+      place *= 10;
+      i--;
+    }
+    if (digits === 0 || value <= previous) return false;
+    previous = value;
+  }
+  return true;
 }
 
 /**

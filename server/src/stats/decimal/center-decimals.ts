@@ -97,7 +97,7 @@ export function centerDecimals(texts: readonly string[]): CenterDecimalsResult {
     if (problem !== undefined) return { ok: false, index: i, reason: problem };
     storeDecimal(column, i, scan, value);
   }
-  const all = new Int32Array(n);
+  const all = new Array<number>(n).fill(0);
   for (let i = 0; i < n; i++) all[i] = i;
   return centerDecimalColumn(column, all, (i) => texts[i]);
 }

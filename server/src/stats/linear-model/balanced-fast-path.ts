@@ -49,19 +49,30 @@ export function balancedLayout(input: LinearModelInput): BalancedLayout | null {
   for (const mask of termMasks) {
     for (let sub = (mask - 1) & mask; sub > 0; sub = (sub - 1) & mask) if (!maskSet.has(sub)) return null;
   }
-  // Factor by factor (a mixed-radix accumulation over typed arrays held in locals), then one counting pass.
-  const cellOfRun = new Int32Array(n);
+  // Counted first without storing each run's cell: most unbalanced designs are rejected here, before a
+  // per-run array is allocated. Mixed radix, the first involved factor fastest.
+  const codes = factors.map((f) => input.factors[f]!.codes);
+  const strides = new Int32Array(factors.length);
   let stride = 1;
   for (let q = 0; q < factors.length; q++) {
-    const codes = input.factors[factors[q]!]!.codes;
-    for (let i = 0; i < n; i++) cellOfRun[i]! += codes[i]! * stride;
+    strides[q] = stride;
     stride *= levels[q]!;
   }
   const counts = new Int32Array(cellCount);
-  for (let i = 0; i < n; i++) counts[cellOfRun[i]!]!++;
+  for (let i = 0; i < n; i++) {
+    let cell = 0;
+    for (let q = 0; q < codes.length; q++) cell += codes[q]![i]! * strides[q]!;
+    counts[cell]!++;
+  }
   const perCell = counts[0]!;
   if (perCell < 1) return null;
   for (let c = 1; c < cellCount; c++) if (counts[c] !== perCell) return null;
+  const cellOfRun = new Int32Array(n);
+  for (let q = 0; q < codes.length; q++) {
+    const factorCodes = codes[q]!;
+    const step = strides[q]!;
+    for (let i = 0; i < n; i++) cellOfRun[i]! += factorCodes[i]! * step;
+  }
   return { factors, levels, cellOfRun, cellCount, perCell, termMasks };
 }
 

@@ -88,9 +88,10 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
   const explainedPlusResidual = core.modelSs + residualSs;
   const rSquared = explainedPlusResidual > 0 ? finiteOrNull(core.modelSs / explainedPlusResidual) : null;
   const residualSd = residualMs !== null ? Math.sqrt(residualMs) : null;
-  const cases = caseStatisticValues(core.residuals, core.leverage, residualSs, residualDf, testable);
-  // The per-observation arrays of nullable numbers are built on first read only (a million boxed numbers
-  // cost far more than the typed arrays they come from), and kept.
+  // The per-observation residual scales are computed on first read only, and kept: a million of them are
+  // two passes and two million boxed numbers that most consumers (the text report, check) never read.
+  let cases: ReturnType<typeof caseStatisticValues> | undefined;
+  const caseValues = () => (cases ??= caseStatisticValues(core.residuals, core.leverage, residualSs, residualDf, testable));
   let standardized: (number | null)[] | undefined;
   let studentized: (number | null)[] | undefined;
 
@@ -109,10 +110,10 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
     residuals: core.residuals,
     leverage: core.leverage,
     get standardized(): (number | null)[] {
-      return (standardized ??= nullWhereNaN(cases.standardized));
+      return (standardized ??= nullWhereNaN(caseValues().standardized));
     },
     get studentized(): (number | null)[] {
-      return (studentized ??= nullWhereNaN(cases.studentized));
+      return (studentized ??= nullWhereNaN(caseValues().studentized));
     },
     effectSizes: anova.map((row) => termEffectSize(row.source, row.ss, row.df, totalSs, residualSs, residualMs)),
     slopes: core.slopes.map((s) => ({
