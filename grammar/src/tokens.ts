@@ -4,7 +4,8 @@
  * Two lexer modes: `main` for declarations, and `runsHeader`, entered after the `runs` keyword, which
  * lexes the header line's column names and `|` and then hands the whole table body to one `RunsBody`
  * token. The body is split into rows and cells by the hand-written scanner in `runs-scanner.ts`,
- * because one token object per cell would cost far too much on a million-run file.
+ * because one token object per cell would cost far too much on a million-run file; the token's matcher
+ * runs that scanner (it alone knows where the table ends) and passes the rows on as the token's payload.
  *
  * Keywords are declared ahead of `Identifier` with `longer_alt`, so `levelsX` stays an identifier
  * (the keyword-versus-identifier pattern from the Chevrotain examples).
