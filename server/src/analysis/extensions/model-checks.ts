@@ -32,6 +32,7 @@ import { friedman, kruskalWallis } from "../../stats/alternatives/rank-tests.js"
 import { welchAnova, welchT } from "../../stats/alternatives/welch.js";
 import { formatNumber, formatP } from "../../text/format-number.js";
 import { fixedFactorsInModel, groupsOf } from "./compared-groups.js";
+import { studentizedValues } from "./studentized-values.js";
 
 const MAX_SPEC_DIAGNOSTICS = 100;
 
@@ -110,7 +111,8 @@ export const modelChecksExtension: ResponseExtension = (context) => {
     } else skipped("The Shapiro-Wilk test", sw.reason);
 
     // Outliers: Bonferroni bound on externally studentized residuals.
-    const flags = bonferroniOutliers(fit.studentized, fit.residual.df, alpha);
+    // From a typed array, not the fit's array of boxed numbers (studentized-values.ts).
+    const flags = bonferroniOutliers(studentizedValues(fit), fit.residual.df, alpha);
     if (flags.length > 0) {
       checks.outliers = flags.map((f) => ({ run: runs.length ? runId(design.runs, runs[f.index]!) : "", row: runs[f.index]!, studentized: f.studentized, p: f.p }));
       for (const f of flags) {

@@ -19,8 +19,9 @@ export interface OutlierFlag {
  * The p-value falls as |t| grows, so only residuals beyond the critical value t(1 - α/(2n), ν - 1) can be
  * flagged: the exact p-value is computed only for residuals within 1% of that bound or past it, not for
  * each of a million runs (the margin keeps the decision to the exact p-value for every borderline run).
+ * Undefined residuals are null or NaN (a typed array).
  */
-export function bonferroniOutliers(studentized: readonly (number | null)[], residualDf: number, alpha: number): OutlierFlag[] {
+export function bonferroniOutliers(studentized: ArrayLike<number | null>, residualDf: number, alpha: number): OutlierFlag[] {
   const n = studentized.length;
   const df = residualDf - 1;
   if (df < 1 || n === 0) return [];
