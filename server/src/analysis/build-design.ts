@@ -1,6 +1,6 @@
 import type { DecimalNumber, FactorDecl, Name, PlanSetting, RunRows, Span, TrialFile } from "../../../grammar/src/ast.js";
 import { cellText } from "../../../grammar/src/runs-table.js";
-import { emptyScan, rangeReason, scanDecimal, scanValue } from "../stats/decimal/parse-decimal.js";
+import { type DecimalScan, emptyScan, rangeReason, scanDecimal, scanValue } from "../stats/decimal/parse-decimal.js";
 import { type DecimalColumn, decimalColumn, storeDecimal } from "../stats/decimal/center-decimals.js";
 import { type DuplicateRunIds, duplicateRunIds } from "./duplicate-run-ids.js";
 import type {
@@ -619,12 +619,57 @@ function readRuns(
   }
   let nextDuplicate = 0;
 
-  for (let r = 0; r < count; r++) {
+  // The tight path: the cells of every regular row (the header's count of cells, and its split at '|')
+  // are read column by column, one monomorphic loop per column, without diagnostics. The loop below then
+  // reads again, row by row and with diagnostics, only the rows that need one (irregular, excluded,
+  // pending, a repeated id, an unknown level or a value that is not a usable number), so diagnostics keep
+  // their order and most rows of a million are touched once.
+  const checkedLevels: Int32Array[] = [];
+  const checkedStatus: Uint8Array[] = [];
+  for (let column = 0; column < columnCount; column++) {
+    const kind = roleKind[column];
+    const index = roleIndex[column]!;
+    if (kind === Role.Factor) {
+      const out = levels[index]!;
+      const names = levelNames[index]!;
+      const byName = levelIndex[index]!;
+      checkedLevels.push(out);
+      for (let r = 0; r < count; r++) {
+        const first = cellOffset[r]!;
+        const pipe = pipeCell[r]!;
+        if (cellOffset[r + 1]! - first !== columnCount || (pipe >= 0 && headerHasPipe && pipe !== leftCount)) continue;
+        out[r] = findLevel(source, rows, first + column, names, byName);
+      }
+    } else if (kind === Role.Response || kind === Role.Covariate) {
+      const response = kind === Role.Response;
+      const status = response ? responseStatus[index]! : covariateStatus[index]!;
+      const cells = response ? responseCells[index]! : covariateCells[index]!;
+      const values = response ? responseValues[index]! : covariateValues[index]!;
+      checkedStatus.push(status);
+      for (let r = 0; r < count; r++) {
+        const first = cellOffset[r]!;
+        const pipe = pipeCell[r]!;
+        if (cellOffset[r + 1]! - first !== columnCount || (pipe >= 0 && headerHasPipe && pipe !== leftCount)) continue;
+        const cell = first + column;
+        const read = readValue(source, rows, cell, values, r);
+        status[r] = read === CellValue.Measured ? ValueStatus.Measured : read === CellValue.Pending && response ? ValueStatus.Pending : ValueStatus.Invalid;
+        cells[r] = cell;
+      }
+    }
+  }
+
+  rows: for (let r = 0; r < count; r++) {
     const mark = anyExcluded ? rows.excluded.get(r) : undefined;
-    if (mark) excluded[r] = 1;
     const first = cellOffset[r]!;
     const n = cellOffset[r + 1]! - first;
     const pipe = pipeCell[r]!;
+    if (mark === undefined && n === columnCount && !(pipe >= 0 && headerHasPipe && pipe !== leftCount) && !(duplicates !== undefined && nextDuplicate < duplicates.rows.length && duplicates.rows[nextDuplicate] === r)) {
+      let clean = true;
+      for (let q = 0; q < checkedLevels.length && clean; q++) clean = checkedLevels[q]![r]! >= 0;
+      for (let q = 0; q < checkedStatus.length && clean; q++) clean = checkedStatus[q]![r] === ValueStatus.Measured;
+      if (clean) continue rows;
+    }
+    if (mark) excluded[r] = 1;
     const split = pipe >= 0 && headerHasPipe;
     // The common row has the header's cells on each side: then cell k is column k.
     let direct: boolean;
@@ -801,38 +846,55 @@ function mapColumns(
 /** Reused by every cell check so validating a million values allocates nothing per value. */
 const scratchScan = emptyScan();
 
+/** What a covariate or response cell holds (see `readValue`). */
+const enum CellValue {
+  Measured = 0,
+  /** An unquoted or quoted `?`: pending for a response, not recorded for a covariate. */
+  Pending = 1,
+  NotANumber = 2,
+  /** A number no finite nonzero double can stand for; `scratchScan` holds its scan. */
+  OutOfRange = 3,
+}
+
 /**
- * Checks one covariate or response cell and, for a number, stores its exact decomposition and double at
- * `r` in `values` (so centring never reads the text again). An unquoted cell is scanned in place in the
- * source; a substring is made only for a quoted cell or for a diagnostic's message.
+ * Reads one covariate or response cell and, for a usable number, stores its exact decomposition and double
+ * at `r` in `values` (so centring never reads the text again). An unquoted cell is scanned in place in the
+ * source; a substring is made only for a quoted cell. Reports nothing (see `valueStatus`).
  */
-function valueStatus(source: string, rows: RunRows, cell: number, values: DecimalColumn, r: number, kind: "covariate" | "response", name: string, sink: DiagnosticSink): ValueStatus {
-  const start = rows.cellStart[cell]!;
-  const end = rows.cellEnd[cell]!;
+function readValue(source: string, rows: RunRows, cell: number, values: DecimalColumn, r: number): CellValue {
   const quoted = rows.cellFlags[cell] !== 0;
   const text = quoted ? cellText(source, rows, cell) : source;
-  const from = quoted ? 0 : start;
-  const to = quoted ? text.length : end;
-  if (to - from === 1 && text.charCodeAt(from) === 63 /* ? */) {
+  const from = quoted ? 0 : rows.cellStart[cell]!;
+  const to = quoted ? text.length : rows.cellEnd[cell]!;
+  if (to - from === 1 && text.charCodeAt(from) === 63 /* ? */) return CellValue.Pending;
+  const scan = scanDecimal(text, scratchScan, from, to);
+  if (typeof scan === "string") return CellValue.NotANumber;
+  const value = scanValue(text, scan);
+  if (scan.significantCount > 0 && (value === 0 || !Number.isFinite(value))) return CellValue.OutOfRange;
+  storeDecimal(values, r, scan, value);
+  return CellValue.Measured;
+}
+
+/** Reads one covariate or response cell (`readValue`) and reports a value that cannot be used. */
+function valueStatus(source: string, rows: RunRows, cell: number, values: DecimalColumn, r: number, kind: "covariate" | "response", name: string, sink: DiagnosticSink): ValueStatus {
+  const read = readValue(source, rows, cell, values, r);
+  if (read === CellValue.Measured) return ValueStatus.Measured;
+  const span = { start: rows.cellStart[cell]!, end: rows.cellEnd[cell]! };
+  const written = cellText(source, rows, cell);
+  if (read === CellValue.Pending) {
     if (kind === "covariate") {
-      sink.add(diagnostic("not-a-number", { start, end }, `The ${kind} '${name}' is not recorded for this run: write the measured value.`));
+      sink.add(diagnostic("not-a-number", span, `The ${kind} '${name}' is not recorded for this run: write the measured value.`));
       return ValueStatus.Invalid;
     }
     return ValueStatus.Pending;
   }
-  const scan = scanDecimal(text, scratchScan, from, to);
-  if (typeof scan === "string") {
-    sink.add(diagnostic("not-a-number", { start, end }, `'${text.slice(from, to)}' is not a number for the ${kind} '${name}': write a decimal number such as 12.5, or ? if it is not measured yet.`));
+  if (read === CellValue.NotANumber) {
+    sink.add(diagnostic("not-a-number", span, `'${written}' is not a number for the ${kind} '${name}': write a decimal number such as 12.5, or ? if it is not measured yet.`));
     return ValueStatus.Invalid;
   }
-  const value = scanValue(text, scan);
-  if (scan.significantCount > 0 && (value === 0 || !Number.isFinite(value))) {
-    const written = text.slice(from, to);
-    sink.add(diagnostic("value-out-of-range", { start, end }, `The ${kind} '${name}' cannot be represented: ${rangeReason(written, scan, value)}. Check the value or change its unit.`));
-    return ValueStatus.Invalid;
-  }
-  storeDecimal(values, r, scan, value);
-  return ValueStatus.Measured;
+  const scan = scanDecimal(written, scratchScan) as DecimalScan;
+  sink.add(diagnostic("value-out-of-range", span, `The ${kind} '${name}' cannot be represented: ${rangeReason(written, scan, scanValue(written, scan))}. Check the value or change its unit.`));
+  return ValueStatus.Invalid;
 }
 
 function reportPendingAndExcluded(
