@@ -25,14 +25,14 @@ import { type Diagnostic, diagnostic } from "../diagnostics.js";
 import type { AlternativeTests, ModelChecks } from "../results.js";
 import { bartlettTest } from "../../stats/checks/bartlett.js";
 import { leveneTests } from "../../stats/checks/levene.js";
-import { bonferroniOutliers } from "../../stats/checks/outliers.js";
+import { bonferroniOutliersAmong, bonferroniScreen } from "../../stats/checks/outliers.js";
 import { shapiroWilk } from "../../stats/checks/shapiro-wilk.js";
 import { varianceMeanTrend } from "../../stats/checks/variance-mean.js";
 import { friedman, kruskalWallis } from "../../stats/alternatives/rank-tests.js";
 import { welchAnova, welchT } from "../../stats/alternatives/welch.js";
 import { formatNumber, formatP } from "../../text/format-number.js";
 import { fixedFactorsInModel, groupsOf } from "./compared-groups.js";
-import { studentizedValues } from "./studentized-values.js";
+import { studentizedCandidates } from "./studentized-values.js";
 
 const MAX_SPEC_DIAGNOSTICS = 100;
 
@@ -111,8 +111,10 @@ export const modelChecksExtension: ResponseExtension = (context) => {
     } else skipped("The Shapiro-Wilk test", sw.reason);
 
     // Outliers: Bonferroni bound on externally studentized residuals.
-    // From a typed array, not the fit's array of boxed numbers (studentized-values.ts).
-    const flags = bonferroniOutliers(studentizedValues(fit), fit.residual.df, alpha);
+    // Only runs that can pass the bound get a studentized residual (studentized-values.ts).
+    const screen = bonferroniScreen(fit.residuals.length, fit.residual.df, alpha);
+    const candidates = screen === null ? null : studentizedCandidates(fit, screen);
+    const flags = candidates ? bonferroniOutliersAmong(candidates.index, candidates.studentized, fit.residuals.length, fit.residual.df, alpha) : [];
     if (flags.length > 0) {
       checks.outliers = flags.map((f) => ({ run: runs.length ? runId(design.runs, runs[f.index]!) : "", row: runs[f.index]!, studentized: f.studentized, p: f.p }));
       for (const f of flags) {

@@ -1,9 +1,9 @@
 /**
- * The externally studentized residuals of a fit as a typed array (NaN where undefined), for the outlier
- * check. The fit's own `studentized` is a generic array of numbers and nulls built on first read: with a
- * million runs that is a million boxed numbers the text report and `check` never show. The values here
- * come from the same function with the same inputs (linear-model/case-statistics.ts), so they are the
- * fit's values bit for bit (test/analysis/extensions/studentized-values.test.ts checks it).
+ * The externally studentized residuals the outlier check needs, without the fit's `studentized` array
+ * (a generic array of numbers and nulls built on first read: with a million runs, a million boxed numbers
+ * that the text report and `check` never show). The values come from the same function with the same
+ * inputs as the fit's (linear-model/case-statistics.ts, element by element), so they equal the fit's bit
+ * for bit (test/analysis/extensions/studentized-values.test.ts checks it).
  */
 
 import { caseStatisticValues } from "../../stats/linear-model/case-statistics.js";
@@ -11,8 +11,53 @@ import type { LinearModelResult } from "../../stats/linear-model/types.js";
 
 /** Externally studentized residuals of `fit` (Belsley, Kuh & Welsch 1980), NaN where the fit has null. */
 export function studentizedValues(fit: LinearModelResult): Float64Array {
-  // The fit computes case statistics only when its residual mean square can be tested against: a residual
-  // df and a residual that is not zero (the `zero-residual-variance` note).
-  const testable = fit.residual.ms !== null && !fit.notes.some((note) => note.code === "zero-residual-variance");
-  return caseStatisticValues(fit.residuals, fit.leverage, fit.residual.ss, fit.residual.df, testable).studentized;
+  return caseStatisticValues(fit.residuals, fit.leverage, fit.residual.ss, fit.residual.df, testable(fit)).studentized;
+}
+
+/** Runs that may have |t| >= `minimum`, and their studentized residuals (NaN where undefined). */
+export interface StudentizedCandidates {
+  readonly index: Int32Array;
+  readonly studentized: Float64Array;
+}
+
+/**
+ * The studentized residuals of only those runs whose |t| may reach `minimum`. With ν residual df and
+ * residual sum of squares SS, run i's t² = r²(ν - 1) / (SS - r²) where r² = e²/(1 - h) (Belsley, Kuh &
+ * Welsch 1980, §2.1), increasing in r²; so |t| >= T needs r² >= T² SS / (ν - 1 + T²). One pass over the
+ * residuals and leverages with that bound (loosened by 2% against rounding) picks the candidates, and
+ * their t comes from the fit's own formula applied to them alone.
+ */
+export function studentizedCandidates(fit: LinearModelResult, minimum: number): StudentizedCandidates {
+  const residuals = fit.residuals;
+  const leverage = fit.leverage;
+  const n = residuals.length;
+  const ss = fit.residual.ss;
+  const df = fit.residual.df;
+  const bound = (0.98 * minimum * minimum * ss) / (df - 1 + minimum * minimum);
+  let chosen: Int32Array;
+  if (!(minimum > 0) || !(bound > 0) || !Number.isFinite(bound)) {
+    chosen = new Int32Array(n);
+    for (let i = 0; i < n; i++) chosen[i] = i;
+  } else {
+    let count = 0;
+    const picked = new Int32Array(n);
+    for (let i = 0; i < n; i++) {
+      const e = residuals[i]!;
+      // Not `>= bound` alone: a NaN or a leverage of 1 must be kept for the exact formula to judge.
+      if (!((e * e) / (1 - leverage[i]!) < bound)) picked[count++] = i;
+    }
+    chosen = picked.slice(0, count);
+  }
+  const e = new Float64Array(chosen.length);
+  const h = new Float64Array(chosen.length);
+  for (let j = 0; j < chosen.length; j++) {
+    e[j] = residuals[chosen[j]!]!;
+    h[j] = leverage[chosen[j]!]!;
+  }
+  return { index: chosen, studentized: caseStatisticValues(e, h, ss, df, testable(fit)).studentized };
+}
+
+/** The fit computes case statistics only with a residual df and a residual that is not zero. */
+function testable(fit: LinearModelResult): boolean {
+  return fit.residual.ms !== null && !fit.notes.some((note) => note.code === "zero-residual-variance");
 }

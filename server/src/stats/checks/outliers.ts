@@ -23,17 +23,45 @@ export interface OutlierFlag {
  */
 export function bonferroniOutliers(studentized: ArrayLike<number | null>, residualDf: number, alpha: number): OutlierFlag[] {
   const n = studentized.length;
-  const df = residualDf - 1;
-  if (df < 1 || n === 0) return [];
-  const critical = -tQuantile(alpha / (2 * n), df);
-  // Without a usable bound (NaN), every residual gets its exact p-value.
-  const screen = Number.isFinite(critical) && critical > 0 ? 0.99 * critical : 0;
+  const screen = bonferroniScreen(n, residualDf, alpha);
+  if (screen === null) return [];
   const out: OutlierFlag[] = [];
   for (let index = 0; index < n; index++) {
     const t = studentized[index];
     if (t === null || t === undefined || !Number.isFinite(t) || Math.abs(t) < screen) continue;
-    const p = Math.min(1, n * tTwoSidedP(t, df));
+    const p = Math.min(1, n * tTwoSidedP(t, residualDf - 1));
     if (p < alpha) out.push({ index, studentized: t, p });
+  }
+  return out;
+}
+
+/**
+ * The |t| below which no studentized residual of `n` can be flagged: 99% of the Bonferroni critical value
+ * t(1 - α/(2n), ν - 1), 0 when that value is not usable (every residual is then tested), null when nothing
+ * can be flagged (ν - 1 < 1 or no runs).
+ */
+export function bonferroniScreen(n: number, residualDf: number, alpha: number): number | null {
+  const df = residualDf - 1;
+  if (df < 1 || n === 0) return null;
+  const critical = -tQuantile(alpha / (2 * n), df);
+  // Without a usable bound (NaN), every residual gets its exact p-value.
+  return Number.isFinite(critical) && critical > 0 ? 0.99 * critical : 0;
+}
+
+/**
+ * `bonferroniOutliers` of `n` residuals given only some of them: `studentized[j]` is the residual of
+ * observation `index[j]`, and every residual not given lies below `bonferroniScreen` (the caller's screen
+ * must ensure it). Equal to `bonferroniOutliers` of all n.
+ */
+export function bonferroniOutliersAmong(index: ArrayLike<number>, studentized: ArrayLike<number>, n: number, residualDf: number, alpha: number): OutlierFlag[] {
+  const screen = bonferroniScreen(n, residualDf, alpha);
+  if (screen === null) return [];
+  const out: OutlierFlag[] = [];
+  for (let j = 0; j < index.length; j++) {
+    const t = studentized[j]!;
+    if (!Number.isFinite(t) || Math.abs(t) < screen) continue;
+    const p = Math.min(1, n * tTwoSidedP(t, residualDf - 1));
+    if (p < alpha) out.push({ index: index[j]!, studentized: t, p });
   }
   return out;
 }
