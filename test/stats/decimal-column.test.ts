@@ -6,7 +6,7 @@
 import assert from "node:assert/strict";
 import fc from "fast-check";
 
-import { centerDecimalColumn, centerDecimals, decimalColumn, storeDecimal } from "../../server/src/stats/decimal/center-decimals.js";
+import { centerDecimalColumn, centerDecimals, decimalColumn, decimalValue, storeDecimal } from "../../server/src/stats/decimal/center-decimals.js";
 import { emptyScan, rangeReason, scanDecimal, scanValue, significantDigits } from "../../server/src/stats/decimal/parse-decimal.js";
 
 /** Decimal texts as users type them: signs, leading and trailing zeros, points, exponents; short and long. */
@@ -70,7 +70,8 @@ function assertSameCentring(texts: readonly string[], rows?: readonly number[]):
     if (typeof scanned === "string") return;
     const value = scanValue(text, scan);
     if (rangeReason(text, scan, value) !== undefined) return;
-    storeDecimal(column, i, scan, value);
+    storeDecimal(column, i, scan);
+    assert.ok(Object.is(decimalValue(column, i, (row) => texts[row]!), value), `stored value of ${text}`);
     valid.push(i);
   });
   const selected = rows ?? valid;

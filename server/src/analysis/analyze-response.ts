@@ -1,10 +1,10 @@
 import type { Span } from "../../../grammar/src/ast.js";
-import { centerDecimalColumn } from "../stats/decimal/center-decimals.js";
+import { centerDecimalColumn, decimalValue } from "../stats/decimal/center-decimals.js";
 import { fitLinearModel } from "../stats/linear-model/fit-linear-model.js";
 import { groupMeansOfGroupings } from "../stats/linear-model/group-means.js";
 import type { LinearModelInput, LinearModelResult, ModelFactor, ModelTerm } from "../stats/linear-model/types.js";
 import { type Design, type DesignRuns, type DesignTerm, ValueStatus } from "./design.js";
-import { responseSpan, responseText, runId } from "./design-runs.js";
+import { covariateText, responseSpan, responseText, runId } from "./design-runs.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
 import type { AdjustedLevelMean, AnovaRow, LevelMean, ResponseAnalysis, RunResidual } from "./results.js";
 
@@ -142,9 +142,10 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   // conversion of the text as Number(text)).
   const covariates: { name: string; values: Float64Array }[] = [];
   for (const c of usedCovariates) {
-    const stored = runs.covariateValues[c]!.value;
+    const stored = runs.covariateValues[c]!;
+    const textOf = (r: number) => covariateText(runs, c, r);
     const values = new Float64Array(used);
-    for (let i = 0; i < used; i++) values[i] = stored[selected[i]!]!;
+    for (let i = 0; i < used; i++) values[i] = decimalValue(stored, selected[i]!, textOf);
     const wide = largestMagnitudeIndex(values);
     if (wide >= 0) {
       diagnostics.push(diagnostic("value-out-of-range", anchors.response, `Covariate '${design.covariates[c]!.name}' has a value beyond about 1e150 (run ${selected[wide]! + 1}), whose square cannot be computed: change the covariate's unit.`));

@@ -871,7 +871,7 @@ function readValue(source: string, rows: RunRows, cell: number, values: DecimalC
   if (typeof scan === "string") return CellValue.NotANumber;
   const value = scanValue(text, scan);
   if (scan.significantCount > 0 && (value === 0 || !Number.isFinite(value))) return CellValue.OutOfRange;
-  storeDecimal(values, r, scan, value);
+  storeDecimal(values, r, scan);
   return CellValue.Measured;
 }
 
@@ -1112,18 +1112,21 @@ function checkSubjectConditions(design: Design, sink: DiagnosticSink): void {
 export function cellIndexOfRuns(design: Design): Int32Array {
   const { runs, cellFactors } = design;
   const result = new Int32Array(runs.count);
-  // Factor by factor over typed arrays (a mixed-radix accumulation), not run by run over objects.
-  const unknown = new Uint8Array(runs.count);
-  for (const f of cellFactors) {
-    const levels = runs.levels[f]!;
-    const radix = design.factors[f]!.levels.length;
-    for (let r = 0; r < runs.count; r++) {
-      const level = levels[r]!;
-      if (level < 0) unknown[r] = 1;
-      result[r] = result[r]! * radix + level;
+  // The level arrays and radices held in locals, so the loop reads typed arrays only.
+  const levels = cellFactors.map((f) => runs.levels[f]!);
+  const radices = Int32Array.from(cellFactors, (f) => design.factors[f]!.levels.length);
+  for (let r = 0; r < runs.count; r++) {
+    let index = 0;
+    for (let q = 0; q < levels.length; q++) {
+      const level = levels[q]![r]!;
+      if (level < 0) {
+        index = -1;
+        break;
+      }
+      index = index * radices[q]! + level;
     }
+    result[r] = index;
   }
-  for (let r = 0; r < runs.count; r++) if (unknown[r] === 1) result[r] = -1;
   return result;
 }
 

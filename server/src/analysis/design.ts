@@ -110,8 +110,8 @@ export interface DesignRuns {
   /** 1 where the run is marked `excluded`. */
   readonly excluded: Uint8Array;
   /**
-   * Per response: each value as checked when the design was built (its double and exact decimal
-   * decomposition), so that the analysis centres the values without reading their texts again. Entries
+   * Per response: each value as checked when the design was built (its exact decimal decomposition, see
+   * `DecimalColumn`), so that the analysis centres the values without reading their texts again. Entries
    * are meaningful only where `responseStatus` is `Measured`.
    */
   readonly responseValues: readonly DecimalColumn[];

@@ -54,27 +54,53 @@ const TWO_POW_53 = 9007199254740992;
 /**
  * Decimal numbers already scanned and validated, stored column-wise (one entry per value, no object per
  * value): what a caller that checked every value once (the model builder) keeps so that centring does not
- * read the texts again. Fill it with {@link storeDecimal}.
+ * read the texts again. Nine bytes per value: most measured values have at most 15 significant digits and
+ * a power of ten within ±22, so they are the signed integer `mantissa` times 10^`exponent`, and their
+ * double is one correctly rounded operation away (Clinger 1990). The others are marked
+ * `EXPONENT_FROM_TEXT` and read from their text when needed. Fill it with {@link storeDecimal}.
  */
 export interface DecimalColumn {
-  /** The double nearest to each value; its sign is the written sign (nonzero values are never 0 here). */
-  readonly value: Float64Array;
-  /** The significant digits as an exact integer; 0 for zero; -1 when there are more than 15 of them. */
+  /** ±(the significant digits as an exact integer), with the written sign (-0 for "-0"); 0 for zero. */
   readonly mantissa: Float64Array;
-  /** Power of ten of the last significant digit (`DecimalScan.exponent`); 0 for zero. */
-  readonly exponent: Int32Array;
+  /** Power of ten of the last significant digit (`DecimalScan.exponent`), or `EXPONENT_FROM_TEXT`. */
+  readonly exponent: Int8Array;
 }
+
+/** `DecimalColumn.exponent` of a value kept only as its text (more than 15 digits or beyond 10^±22). */
+export const EXPONENT_FROM_TEXT = -128;
 
 /** A column of `length` decimals, all zero until stored. */
 export function decimalColumn(length: number): DecimalColumn {
-  return { value: new Float64Array(length), mantissa: new Float64Array(length), exponent: new Int32Array(length) };
+  return { mantissa: new Float64Array(length), exponent: new Int8Array(length) };
 }
 
-/** Stores a successful scan of a value in range (see `rangeReason`) and its double at `index`. */
-export function storeDecimal(column: DecimalColumn, index: number, scan: DecimalScan, value: number): void {
-  column.value[index] = value;
-  column.mantissa[index] = scan.significantCount > 15 ? -1 : scan.mantissa;
-  column.exponent[index] = scan.exponent;
+/** Stores a successful scan of a value in range (see `rangeReason`) at `index`. */
+export function storeDecimal(column: DecimalColumn, index: number, scan: DecimalScan): void {
+  if (scan.significantCount > 15 || scan.exponent > 22 || scan.exponent < -22) {
+    column.mantissa[index] = 0;
+    column.exponent[index] = EXPONENT_FROM_TEXT;
+    return;
+  }
+  column.mantissa[index] = scan.negative ? -scan.mantissa : scan.mantissa;
+  column.exponent[index] = scan.significantCount === 0 ? 0 : scan.exponent;
+}
+
+/**
+ * The double nearest to stored value `row` (the same as `scanValue` of its text); `textOf(row)` is read
+ * only for a value marked `EXPONENT_FROM_TEXT`.
+ */
+export function decimalValue(column: DecimalColumn, row: number, textOf: (row: number) => string): number {
+  const e = column.exponent[row]!;
+  if (e === EXPONENT_FROM_TEXT) return textValue(textOf(row));
+  const m = column.mantissa[row]!;
+  return e >= 0 ? m * EXACT_POWERS_OF_TEN[e] : m / EXACT_POWERS_OF_TEN[-e];
+}
+
+const textScan = emptyScan();
+
+/** The double of a text already known to be a valid decimal in range. */
+function textValue(text: string): number {
+  return scanValue(text, scanDecimal(text, textScan) as DecimalScan);
 }
 
 /**
@@ -95,7 +121,7 @@ export function centerDecimals(texts: readonly string[]): CenterDecimalsResult {
     const value = scanValue(texts[i], scan);
     const problem = rangeReason(texts[i], scan, value);
     if (problem !== undefined) return { ok: false, index: i, reason: problem };
-    storeDecimal(column, i, scan, value);
+    storeDecimal(column, i, scan);
   }
   const all = new Array<number>(n).fill(0);
   for (let i = 0; i < n; i++) all[i] = i;
@@ -111,14 +137,25 @@ export function centerDecimals(texts: readonly string[]): CenterDecimalsResult {
  */
 export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<number>, textOf: (row: number) => string): CenterDecimalsResult {
   const n = rows.length;
-  const { value: doubles, mantissa, exponent } = column;
+  const { mantissa, exponent } = column;
   let min = Infinity;
   let max = -Infinity;
   let scale = Infinity;
+  const scan = emptyScan();
   for (let i = 0; i < n; i++) {
     const row = rows[i]!;
-    const value = doubles[row]!;
-    if (mantissa[row] !== 0 && exponent[row]! < scale) scale = exponent[row]!;
+    const e = exponent[row]!;
+    let value: number;
+    if (e !== EXPONENT_FROM_TEXT) {
+      const m = mantissa[row]!;
+      value = e >= 0 ? m * EXACT_POWERS_OF_TEN[e] : m / EXACT_POWERS_OF_TEN[-e];
+      if (m !== 0 && e < scale) scale = e;
+    } else {
+      const text = textOf(row);
+      scanDecimal(text, scan);
+      value = scanValue(text, scan);
+      if (scan.significantCount > 0 && scan.exponent < scale) scale = scan.exponent;
+    }
     if (value < min) min = value;
     if (value > max) max = value;
   }
@@ -132,19 +169,21 @@ export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<numbe
   const power = fastScale ? EXACT_POWERS_OF_TEN[Math.abs(scale)] : NaN;
   const values = new Float64Array(n);
   let offsetBig: bigint | undefined;
-  const scan = emptyScan();
   for (let i = 0; i < n; i++) {
     const row = rows[i]!;
     let result = NaN;
     if (fastScale) {
-      // ±mantissa × 10^shift as an exact double integer (scaledNumber, inlined for the common case).
+      // ±mantissa × 10^shift as an exact double integer (scaledNumber, inlined for the common case). A
+      // value kept as text goes to the exact BigInt path below, which rounds to the same nearest double.
       const m = mantissa[row]!;
-      const shift = exponent[row]! - scale;
+      const e = exponent[row]!;
+      const shift = e - scale;
       let scaled = NaN;
-      if (m === 0) scaled = 0;
-      else if (m > 0 && shift <= 22) {
+      if (e === EXPONENT_FROM_TEXT) scaled = NaN;
+      else if (m === 0) scaled = 0;
+      else if (shift <= 22) {
         const product = m * EXACT_POWERS_OF_TEN[shift];
-        if (product < TWO_POW_53) scaled = doubles[row]! < 0 ? -product : product;
+        if (Math.abs(product) < TWO_POW_53) scaled = product;
       }
       if (!Number.isNaN(scaled)) {
         const difference = scaled - offsetScaled;
