@@ -180,22 +180,28 @@ export function cellModelCore(input: LinearModelInput): ModelCore | null {
     cellFitted[c] = core.fitted[c]! / weights[c]!;
     cellLeverage[c] = core.leverage[c]! / counts[c]!;
   }
-  const fitted = new Float64Array(n);
   const residuals = new Float64Array(n);
   const leverage = new Float64Array(n);
   const { cellOfRun } = layout;
   for (let i = 0; i < n; i++) {
     const c = cellOfRun[i]!;
-    const f = cellFitted[c]!;
-    fitted[i] = f;
-    residuals[i] = y[i]! - f;
+    residuals[i] = y[i]! - cellFitted[c]!;
     leverage[i] = cellLeverage[c]!;
   }
+  // The per-observation fitted values are the cells' fitted values spread back; few consumers read them
+  // (the per-run residual rows), so they are spread back on first read only, and kept.
+  let fitted: Float64Array | undefined;
   return {
     ...core,
     method: "cells",
     residualSs: core.residualSs + withinSs,
-    fitted,
+    get fitted(): Float64Array {
+      if (fitted === undefined) {
+        fitted = new Float64Array(n);
+        for (let i = 0; i < n; i++) fitted[i] = cellFitted[cellOfRun[i]!]!;
+      }
+      return fitted;
+    },
     residuals,
     leverage,
   };

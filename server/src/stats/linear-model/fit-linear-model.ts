@@ -106,7 +106,10 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
     total: { source: "Total", df: n - 1, ss: totalSs },
     rSquared,
     residualSd,
-    fitted: core.fitted,
+    // A getter, so that a core computing its fitted values on first read (the cell path) keeps doing so.
+    get fitted(): Float64Array {
+      return core.fitted;
+    },
     residuals: core.residuals,
     leverage: core.leverage,
     get standardized(): (number | null)[] {
