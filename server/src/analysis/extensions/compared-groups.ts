@@ -1,5 +1,5 @@
 import type { ResponseContext } from "../analyze-response.js";
-import { type GroupSummary, summarizeGroupsWithSums } from "../../stats/comparisons/group-summary.js";
+import { type GroupSummary, summarizeGroupings } from "../../stats/comparisons/group-summary.js";
 
 /** The groups of one compared term: a factor's levels or an interaction's cells, with labels and summaries. */
 export interface ComparedGroups {
@@ -44,16 +44,51 @@ const formed = new WeakMap<Float64Array, Map<string, ComparedGroups | undefined>
 
 /** The groups formed by crossing `factors` over the fit's observations (undefined when a factor has no codes). */
 export function groupsOf(context: ResponseContext, factors: readonly number[]): ComparedGroups | undefined {
-  let cache = formed.get(context.y);
-  if (!cache) formed.set(context.y, (cache = new Map()));
   const key = factors.join(",");
-  if (cache.has(key)) return cache.get(key);
-  const groups = formGroups(context, factors);
-  cache.set(key, groups);
-  return groups;
+  const cache = formed.get(context.y);
+  if (cache?.has(key)) return cache.get(key);
+  prepareGroups(context, [factors]);
+  return formed.get(context.y)!.get(key);
 }
 
-function formGroups(context: ResponseContext, factors: readonly number[]): ComparedGroups | undefined {
+/**
+ * The factor lists the extensions compare: every fixed main effect of the model (comparisons, power,
+ * alternatives) and the cells of all fixed factors in the model (variance checks).
+ */
+export function commonGroupings(context: ResponseContext): number[][] {
+  const lists = fixedMainEffects(context).map((f) => [f]);
+  const cells = fixedFactorsInModel(context);
+  if (cells.length > 1) lists.push(cells);
+  return lists;
+}
+
+/**
+ * Forms the groups of every factor list in `lists` not formed yet for this fit, summarising them together
+ * (summarizeGroupings: up to three groupings share each pass over the runs), so that later `groupsOf`
+ * calls find them.
+ */
+export function prepareGroups(context: ResponseContext, lists: readonly (readonly number[])[]): void {
+  let cache = formed.get(context.y);
+  if (!cache) formed.set(context.y, (cache = new Map()));
+  const pending: { key: string; shape: Omit<ComparedGroups, "summaries" | "sums"> }[] = [];
+  for (const factors of lists) {
+    const key = factors.join(",");
+    if (cache.has(key) || pending.some((p) => p.key === key)) continue;
+    const shape = groupShape(context, factors);
+    if (shape) pending.push({ key, shape });
+    else cache.set(key, undefined);
+  }
+  if (pending.length === 0) return;
+  const summarised = summarizeGroupings(
+    context.y,
+    pending.map((p) => p.shape.codes),
+    pending.map((p) => p.shape.labels.length),
+  );
+  pending.forEach((p, j) => cache.set(p.key, { ...p.shape, ...summarised[j]! }));
+}
+
+/** Labels and codes of the groups crossing `factors` (undefined when a factor has no codes). */
+function groupShape(context: ResponseContext, factors: readonly number[]): Omit<ComparedGroups, "summaries" | "sums"> | undefined {
   const parts = factors.map((f) => context.levelsOf(f));
   if (parts.some((p) => p === undefined)) return undefined;
   const sizes = parts.map((p) => p!.levels.length);
@@ -84,6 +119,5 @@ function formGroups(context: ResponseContext, factors: readonly number[]): Compa
     labels.push(names.join(" x "));
   }
   const term = factors.map((f) => context.design.factors[f]!.name).join(" x ");
-  const { summaries, sums } = summarizeGroupsWithSums(context.y, codes, count);
-  return { term, factors, labels, codes, summaries, sums, declared };
+  return { term, factors, labels, codes, declared };
 }

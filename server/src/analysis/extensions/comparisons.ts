@@ -17,7 +17,7 @@ import type { BestLevel, ComparisonResult, LetterGroup, PolynomialContrastResult
 import { letterDisplay } from "../../stats/comparisons/letter-display.js";
 import { type ComparisonMethod, type ComparisonOutcome, comparisonProblem, dunnett, gamesHowell, pairwiseT, tukeyHsd } from "../../stats/comparisons/pairwise.js";
 import { equallySpaced, polynomialContrasts } from "../../stats/comparisons/polynomial-contrasts.js";
-import { type ComparedGroups, fixedMainEffects, groupsOf } from "./compared-groups.js";
+import { type ComparedGroups, commonGroupings, fixedMainEffects, groupsOf, prepareGroups } from "./compared-groups.js";
 
 const MAX_PAIRWISE_CELLS = 40;
 
@@ -32,6 +32,8 @@ export const comparisonsExtension: ResponseExtension = (context) => {
   const alpha = context.result.alpha;
   const response = design.responses[context.responseIndex]!;
 
+  // This extension's groups and the model checks' cells, summarised together (compared-groups.ts).
+  prepareGroups(context, [...commonGroupings(context), ...(design.pairwise ?? []).map((p) => p.factors)]);
   const families: { groups: ComparedGroups; control?: number; span: ReturnType<typeof spanOf> }[] = [];
   for (const f of fixedMainEffects(context)) {
     const g = groupsOf(context, [f]);

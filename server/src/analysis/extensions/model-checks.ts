@@ -31,7 +31,7 @@ import { varianceMeanTrend } from "../../stats/checks/variance-mean.js";
 import { friedman, kruskalWallis } from "../../stats/alternatives/rank-tests.js";
 import { welchAnova, welchT } from "../../stats/alternatives/welch.js";
 import { formatNumber, formatP } from "../../text/format-number.js";
-import { fixedFactorsInModel, groupsOf } from "./compared-groups.js";
+import { commonGroupings, fixedFactorsInModel, groupsOf, prepareGroups } from "./compared-groups.js";
 import { studentizedCandidates } from "./studentized-values.js";
 
 const MAX_SPEC_DIAGNOSTICS = 100;
@@ -48,6 +48,8 @@ export const modelChecksExtension: ResponseExtension = (context) => {
 
   // Variance checks over the cells of the fixed factors in the model.
   const fixed = fixedFactorsInModel(context);
+  // Usually summarised already by the comparisons; otherwise the cells and main effects are, together, here.
+  prepareGroups(context, commonGroupings(context));
   const cells = fixed.length > 0 ? groupsOf(context, fixed) : undefined;
   if (cells) {
     const present = cells.summaries.map((s, i) => [s, i] as const).filter(([s]) => s.n > 0);

@@ -38,11 +38,107 @@ export function summarizeGroupsWithSums(y: ArrayLike<number>, codes: ArrayLike<n
     ss[g] += d * d;
     correction[g] += d;
   }
-  const summaries = Array.from({ length: count }, (_, g) => {
+  return { summaries: finish(n, mean, ss, correction), sums: sum };
+}
+
+/**
+ * `summarizeGroupsWithSums` of several groupings of the same observations (e.g. each factor's levels and
+ * their cells), two or three at a time in the same two passes: each pass reads every value once and
+ * updates one accumulator per grouping. Each grouping's sums still run in observation order, so every
+ * result equals `summarizeGroupsWithSums` of that grouping alone, bit for bit.
+ */
+export function summarizeGroupings(y: ArrayLike<number>, codes: readonly ArrayLike<number>[], counts: readonly number[]): { summaries: GroupSummary[]; sums: Float64Array }[] {
+  const out: { summaries: GroupSummary[]; sums: Float64Array }[] = [];
+  for (let j = 0; j < codes.length; j += 3) {
+    if (j + 1 === codes.length) out.push(summarizeGroupsWithSums(y, codes[j]!, counts[j]!));
+    else out.push(...twoOrThree(y, codes[j]!, counts[j]!, codes[j + 1]!, counts[j + 1]!, codes[j + 2] ?? null, counts[j + 2] ?? 0));
+  }
+  return out;
+}
+
+/** Two or three groupings (`c` null for two) in two passes, written out so that the loops stay simple. */
+function twoOrThree(
+  y: ArrayLike<number>,
+  a: ArrayLike<number>,
+  countA: number,
+  b: ArrayLike<number>,
+  countB: number,
+  c: ArrayLike<number> | null,
+  countC: number,
+): { summaries: GroupSummary[]; sums: Float64Array }[] {
+  const nA = new Float64Array(countA);
+  const sumA = new Float64Array(countA);
+  const nB = new Float64Array(countB);
+  const sumB = new Float64Array(countB);
+  const nC = new Float64Array(countC);
+  const sumC = new Float64Array(countC);
+  const three = c !== null;
+  for (let i = 0; i < y.length; i++) {
+    const v = y[i]!;
+    let g = a[i]!;
+    if (g >= 0 && g < countA) {
+      nA[g]!++;
+      sumA[g] += v;
+    }
+    g = b[i]!;
+    if (g >= 0 && g < countB) {
+      nB[g]!++;
+      sumB[g] += v;
+    }
+    if (three) {
+      g = c[i]!;
+      if (g >= 0 && g < countC) {
+        nC[g]!++;
+        sumC[g] += v;
+      }
+    }
+  }
+  const meanA = Float64Array.from(sumA, (s, g) => (nA[g]! > 0 ? s / nA[g]! : 0));
+  const meanB = Float64Array.from(sumB, (s, g) => (nB[g]! > 0 ? s / nB[g]! : 0));
+  const meanC = Float64Array.from(sumC, (s, g) => (nC[g]! > 0 ? s / nC[g]! : 0));
+  const ssA = new Float64Array(countA);
+  const corrA = new Float64Array(countA);
+  const ssB = new Float64Array(countB);
+  const corrB = new Float64Array(countB);
+  const ssC = new Float64Array(countC);
+  const corrC = new Float64Array(countC);
+  for (let i = 0; i < y.length; i++) {
+    const v = y[i]!;
+    let g = a[i]!;
+    if (g >= 0 && g < countA) {
+      const d = v - meanA[g]!;
+      ssA[g] += d * d;
+      corrA[g] += d;
+    }
+    g = b[i]!;
+    if (g >= 0 && g < countB) {
+      const d = v - meanB[g]!;
+      ssB[g] += d * d;
+      corrB[g] += d;
+    }
+    if (three) {
+      g = c[i]!;
+      if (g >= 0 && g < countC) {
+        const d = v - meanC[g]!;
+        ssC[g] += d * d;
+        corrC[g] += d;
+      }
+    }
+  }
+  const out = [
+    { summaries: finish(nA, meanA, ssA, corrA), sums: sumA },
+    { summaries: finish(nB, meanB, ssB, corrB), sums: sumB },
+  ];
+  if (three) out.push({ summaries: finish(nC, meanC, ssC, corrC), sums: sumC });
+  return out;
+}
+
+/** Summaries from the two passes' accumulators. */
+function finish(n: Float64Array, mean: Float64Array, ss: Float64Array, correction: Float64Array): GroupSummary[] {
+  return Array.from({ length: n.length }, (_, g) => {
     const size = n[g]!;
     // Corrected two-pass formula (Chan, Golub & LeVeque 1983): subtract the squared sum of deviations.
     const variance = size > 1 ? Math.max(0, (ss[g]! - (correction[g]! * correction[g]!) / size) / (size - 1)) : null;
     return { n: size, mean: mean[g]! + (size > 0 ? correction[g]! / size : 0), variance };
   });
-  return { summaries, sums: sum };
 }
