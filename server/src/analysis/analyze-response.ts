@@ -300,7 +300,7 @@ function rawMeans(
   const error = pooled ?? { ms: null, df: 0 };
   // Every grouping is collected first and summarised in one fused pair of passes over y
   // (groupMeansOfGroupings, bit-identical to one groupMeans per grouping), then emitted in this order.
-  const groupings: { term: string; labels: readonly string[]; codes: Int32Array; groupCount: number }[] = [];
+  const groupings: { term: string; labels: readonly string[]; codes: Int32Array; groupCount: number; within?: { codes: Int32Array; levelCount: number } }[] = [];
   for (const f of meanFactors) {
     const c = compact.get(f)!;
     const labels = c.levels.map((l) => design.factors[f]!.levels[l]!.name);
@@ -313,14 +313,8 @@ function rawMeans(
       const b = compact.get(fixed[j]!)!;
       const labels: string[] = [];
       for (const la of a.levels) for (const lb of b.levels) labels.push(`${design.factors[fixed[i]!]!.levels[la]!.name} x ${design.factors[fixed[j]!]!.levels[lb]!.name}`);
-      // Arrays held in locals: the engine does not hoist property loads out of a loop that stores into a
-      // typed array, and a million reloads cost more than the arithmetic.
-      const aCodes = a.codes;
-      const bCodes = b.codes;
-      const codes = new Int32Array(aCodes.length);
-      const bCount = b.levels.length;
-      for (let k = 0; k < codes.length; k++) codes[k] = aCodes[k]! * bCount + bCodes[k]!;
-      groupings.push({ term: `${design.factors[fixed[i]!]!.name} x ${design.factors[fixed[j]!]!.name}`, labels, codes, groupCount: labels.length });
+      // Cell codes a * |b| + b are formed as the observations are read (no third array of codes).
+      groupings.push({ term: `${design.factors[fixed[i]!]!.name} x ${design.factors[fixed[j]!]!.name}`, labels, codes: a.codes, groupCount: labels.length, within: { codes: b.codes, levelCount: b.levels.length } });
     }
   }
   const summaries = groupMeansOfGroupings(y, groupings, error, confidence);

@@ -41,10 +41,16 @@ export function groupMeans(
   return groupMeansOfGroupings(y, [{ codes, groupCount }], pooled, confidence)[0]!;
 }
 
-/** One way of grouping the observations: `codes[i]` is observation i's group in `0..groupCount-1`. */
+/**
+ * One way of grouping the observations: `codes[i]` is observation i's group in `0..groupCount-1`. With
+ * `within`, the group is a cell of two factors, `codes[i] * within.levelCount + within.codes[i]` (the first
+ * factor's levels varying slowest, as in `cellCodes`), formed as the observations are read instead of
+ * stored as a third array of codes.
+ */
 export interface Grouping {
   readonly codes: Int32Array;
   readonly groupCount: number;
+  readonly within?: { readonly codes: Int32Array; readonly levelCount: number };
 }
 
 /**
@@ -62,10 +68,12 @@ export function groupMeansOfGroupings(y: Float64Array, groupings: readonly Group
   const corrections = new Float64Array(total);
   const squares = new Float64Array(total);
   for (let q = 0; q < k; q++) {
-    const { codes, groupCount } = groupings[q]!;
+    const { codes, groupCount, within } = groupings[q]!;
     const from = offsets[q]!;
     const to = offsets[q + 1]!;
-    accumulateGroups(y, codes, groupCount, counts.subarray(from, to), means.subarray(from, to), corrections.subarray(from, to), squares.subarray(from, to));
+    const cells = [counts.subarray(from, to), means.subarray(from, to), corrections.subarray(from, to), squares.subarray(from, to)] as const;
+    if (within) accumulateCells(y, codes, within.codes, within.levelCount, groupCount, ...cells);
+    else accumulateGroups(y, codes, groupCount, ...cells);
   }
   const usable =
     pooled.ms !== null && Number.isFinite(pooled.ms) && pooled.ms >= 0 && pooled.df > 0 && confidence > 0 && confidence < 1;
@@ -114,6 +122,36 @@ function accumulateGroups(
   for (let g = 0; g < groupCount; g++) means[g] = counts[g]! > 0 ? sums[g]! / counts[g]! : 0;
   for (let i = 0; i < m; i++) {
     const g = codes[i]!;
+    if (g < 0 || g >= groupCount) continue;
+    const d = y[i]! - means[g]!;
+    corrections[g]! += d;
+    squares[g]! += d * d;
+  }
+}
+
+/** As `accumulateGroups`, for the cells of two factors (group = first * levelCount + second). */
+function accumulateCells(
+  y: Float64Array,
+  first: Int32Array,
+  second: Int32Array,
+  levelCount: number,
+  groupCount: number,
+  counts: Float64Array,
+  means: Float64Array,
+  corrections: Float64Array,
+  squares: Float64Array,
+): void {
+  const sums = new Float64Array(Math.max(0, groupCount));
+  const m = Math.min(y.length, first.length, second.length);
+  for (let i = 0; i < m; i++) {
+    const g = first[i]! * levelCount + second[i]!;
+    if (g < 0 || g >= groupCount) continue;
+    counts[g]!++;
+    sums[g]! += y[i]!;
+  }
+  for (let g = 0; g < groupCount; g++) means[g] = counts[g]! > 0 ? sums[g]! / counts[g]! : 0;
+  for (let i = 0; i < m; i++) {
+    const g = first[i]! * levelCount + second[i]!;
     if (g < 0 || g >= groupCount) continue;
     const d = y[i]! - means[g]!;
     corrections[g]! += d;
