@@ -39,38 +39,12 @@ export function shapiroWilk(values: ArrayLike<number>): ({ ok: true } & ShapiroW
   const n = values.length;
   if (n < 3) return { ok: false, reason: "the Shapiro-Wilk test needs at least 3 values" };
   if (n > 5000) return { ok: false, reason: "the Shapiro-Wilk p-value approximation holds for at most 5000 values" };
-  const x = Array.from(values).sort((a, b) => a - b);
+  // A typed-array sort compares numbers natively (no comparator call per comparison).
+  const x = Float64Array.from(values).sort();
   const range = x[n - 1]! - x[0]!;
   if (!(range > 0) || range / Math.max(Math.abs(x[0]!), Math.abs(x[n - 1]!)) < 1e-12) return { ok: false, reason: "all values are equal, so normality cannot be assessed" };
-  const nn2 = n >> 1;
-  const a = new Float64Array(nn2 + 1); // 1-based as in the Fortran
+  const a = coefficientsFor(n);
   const an = n;
-  if (n === 3) a[1] = Math.SQRT1_2;
-  else {
-    const an25 = an + 0.25;
-    let summ2 = 0;
-    for (let i = 1; i <= nn2; i++) {
-      a[i] = normalQuantile((i - 0.375) / an25);
-      summ2 += a[i]! * a[i]!;
-    }
-    summ2 *= 2;
-    const ssumm2 = Math.sqrt(summ2);
-    const rsn = 1 / Math.sqrt(an);
-    const a1 = poly(C1, rsn) - a[1]! / ssumm2;
-    let i1: number;
-    let fac: number;
-    if (n > 5) {
-      i1 = 3;
-      const a2 = -a[2]! / ssumm2 + poly(C2, rsn);
-      fac = Math.sqrt((summ2 - 2 * a[1]! * a[1]! - 2 * a[2]! * a[2]!) / (1 - 2 * a1 * a1 - 2 * a2 * a2));
-      a[2] = a2;
-    } else {
-      i1 = 2;
-      fac = Math.sqrt((summ2 - 2 * a[1]! * a[1]!) / (1 - 2 * a1 * a1));
-    }
-    a[1] = a1;
-    for (let i = i1; i <= nn2; i++) a[i] = -a[i]! / fac;
-  }
   // W as the squared correlation of the scaled data with the coefficients (antisymmetric in rank).
   const coefficient = (i: number) => {
     const j = n - 1 - i;
@@ -119,4 +93,55 @@ export function shapiroWilk(values: ArrayLike<number>): ({ ok: true } & ShapiroW
     s = Math.exp(poly(C6, xx));
   }
   return { ok: true, w, p: normalUpperTail((y - m) / s), n };
+}
+
+/**
+ * The coefficients a[1..n/2] (1-based, as in the Fortran) depend on n alone: they are kept for the last
+ * few sample sizes, because the language server re-runs the test on every keystroke with the same n and
+ * the n/2 normal quantiles cost more than the rest of the test.
+ */
+const coefficientCache = new Map<number, Float64Array>();
+const COEFFICIENT_CACHE_SIZE = 8;
+
+function coefficientsFor(n: number): Float64Array {
+  const cached = coefficientCache.get(n);
+  if (cached) return cached;
+  const a = computeCoefficients(n);
+  if (coefficientCache.size >= COEFFICIENT_CACHE_SIZE) coefficientCache.delete(coefficientCache.keys().next().value!);
+  coefficientCache.set(n, a);
+  return a;
+}
+
+/** AS R94's coefficients for sample size n (3 <= n <= 5000). */
+function computeCoefficients(n: number): Float64Array {
+  const nn2 = n >> 1;
+  const a = new Float64Array(nn2 + 1); // 1-based as in the Fortran
+  const an = n;
+  if (n === 3) a[1] = Math.SQRT1_2;
+  else {
+    const an25 = an + 0.25;
+    let summ2 = 0;
+    for (let i = 1; i <= nn2; i++) {
+      a[i] = normalQuantile((i - 0.375) / an25);
+      summ2 += a[i]! * a[i]!;
+    }
+    summ2 *= 2;
+    const ssumm2 = Math.sqrt(summ2);
+    const rsn = 1 / Math.sqrt(an);
+    const a1 = poly(C1, rsn) - a[1]! / ssumm2;
+    let i1: number;
+    let fac: number;
+    if (n > 5) {
+      i1 = 3;
+      const a2 = -a[2]! / ssumm2 + poly(C2, rsn);
+      fac = Math.sqrt((summ2 - 2 * a[1]! * a[1]! - 2 * a[2]! * a[2]!) / (1 - 2 * a1 * a1 - 2 * a2 * a2));
+      a[2] = a2;
+    } else {
+      i1 = 2;
+      fac = Math.sqrt((summ2 - 2 * a[1]! * a[1]!) / (1 - 2 * a1 * a1));
+    }
+    a[1] = a1;
+    for (let i = i1; i <= nn2; i++) a[i] = -a[i]! / fac;
+  }
+  return a;
 }

@@ -1,0 +1,26 @@
+import { strict as assert } from "node:assert";
+import { extendResult } from "../../server/src/analysis/analyze-response.js";
+import type { ResponseAnalysis } from "../../server/src/analysis/results.js";
+
+describe("extendResult", () => {
+  it("keeps accessors lazy, keys in order, and lets later keys replace earlier ones in place", () => {
+    let reads = 0;
+    const base = { name: "y", n: 3, get residuals() {
+      reads++;
+      return [];
+    }, alpha: 0.05 } as unknown as ResponseAnalysis;
+    const add: Record<string, unknown> = { n: 4, power: [] };
+    let tables = 0;
+    Object.defineProperty(add, "comparisons", { enumerable: true, configurable: true, get: () => ++tables });
+    const out = extendResult(base, add as Partial<ResponseAnalysis>) as unknown as Record<string, unknown>;
+    assert.equal(reads, 0, "merging must not build the residual rows");
+    assert.equal(tables, 0, "merging must not compute the comparison tables");
+    assert.deepEqual(Object.keys(out), ["name", "n", "residuals", "alpha", "power", "comparisons"]);
+    assert.equal(out.n, 4);
+    assert.deepEqual(JSON.parse(JSON.stringify(out)), { name: "y", n: 4, residuals: [], alpha: 0.05, power: [], comparisons: 1 });
+    assert.equal(reads, 1);
+    // A second merge keeps the accessor an accessor.
+    const again = extendResult(out as unknown as ResponseAnalysis, {}) as unknown as Record<string, unknown>;
+    assert.equal(typeof Object.getOwnPropertyDescriptor(again, "residuals")!.get, "function");
+  });
+});
