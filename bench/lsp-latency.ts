@@ -14,8 +14,8 @@ import { analyzeParsed } from "../server/src/analysis/analyze-document.js";
 import { ensureServerBundle, ProtocolClient } from "../test/lsp/protocol-client.js";
 
 const SIZES = (process.env.LSP_BENCH_SIZES ?? "100,1000,10000").split(",").map(Number);
-const EDITS = 60;
-const WARMUP = 10;
+const EDITS = 200;
+const WARMUP = 20;
 
 /**
  * An invented molding-line experiment: part weight and flash vs. melt temperature (4 levels) and press
