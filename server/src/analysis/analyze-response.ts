@@ -55,25 +55,42 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const allFactors = [...new Set([...usedFactors, ...meanFactors])];
   const status = runs.responseStatus[responseIndex]!;
   // Plain loops over typed arrays (no closure per run): this runs once per response over every run. The
-  // rows are counted, then written into an exactly sized plain array (growing one by a million pushes
-  // costs several times more).
-  // Runs left out are marked variable by variable (one tight loop per array), then collected in one pass.
+  // usable rows are counted in one pass, then a second pass writes them into an exactly sized plain array
+  // (growing one by a million pushes costs several times more) and, in the same pass, each factor's level
+  // per selected run (the codes compacted below), so that no per-run mask or copy is allocated.
   const count = runs.count;
-  const left = new Uint8Array(count);
   const excluded = runs.excluded;
-  for (let r = 0; r < count; r++) left[r] = excluded[r]! | (status[r] !== ValueStatus.Measured ? 1 : 0);
-  for (const f of allFactors) {
-    const levels = runs.levels[f]!;
-    for (let r = 0; r < count; r++) if (levels[r]! < 0) left[r] = 1;
-  }
-  for (const c of usedCovariates) {
-    const known = runs.covariateStatus[c]!;
-    for (let r = 0; r < count; r++) if (known[r] !== ValueStatus.Measured) left[r] = 1;
-  }
+  const factorLevels = allFactors.map((f) => runs.levels[f]!);
+  const covariateKnown = usedCovariates.map((c) => runs.covariateStatus[c]!);
+  const usable = (r: number): boolean => {
+    if (excluded[r] !== 0 || status[r] !== ValueStatus.Measured) return false;
+    for (let q = 0; q < factorLevels.length; q++) if (factorLevels[q]![r]! < 0) return false;
+    for (let q = 0; q < covariateKnown.length; q++) if (covariateKnown[q]![r] !== ValueStatus.Measured) return false;
+    return true;
+  };
   let used = 0;
-  for (let r = 0; r < count; r++) used += 1 - left[r]!;
+  for (let r = 0; r < count; r++) if (usable(r)) used++;
   const selected: number[] = new Array<number>(used).fill(0);
-  for (let r = 0, i = 0; r < count; r++) if (left[r] === 0) selected[i++] = r;
+  const declaredCodes = allFactors.map(() => new Int32Array(used));
+  if (allFactors.length === 2) {
+    // The common two-factor design with its arrays in locals.
+    const la = factorLevels[0]!;
+    const lb = factorLevels[1]!;
+    const ca = declaredCodes[0]!;
+    const cb = declaredCodes[1]!;
+    for (let r = 0, i = 0; r < count; r++) {
+      if (!usable(r)) continue;
+      ca[i] = la[r]!;
+      cb[i] = lb[r]!;
+      selected[i++] = r;
+    }
+  } else {
+    for (let r = 0, i = 0; r < count; r++) {
+      if (!usable(r)) continue;
+      for (let q = 0; q < factorLevels.length; q++) declaredCodes[q]![i] = factorLevels[q]![r]!;
+      selected[i++] = r;
+    }
+  }
 
   const empty: ResponseAnalysis = {
     name: response.name,
@@ -107,7 +124,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const offset = centred.offset;
   // Squares of the centred values must stay finite for the sums of squares: beyond about 1e150 apart they
   // overflow a double, so such data get a diagnostic instead of an Infinity in the table.
-  const tooWide = largestMagnitudeIndex(centred.values);
+  const tooWide = centred.largestMagnitude <= SQUARE_LIMIT ? -1 : largestMagnitudeIndex(centred.values);
   if (tooWide >= 0) {
     const r = selected[tooWide]!;
     diagnostics.push(diagnostic("value-out-of-range", responseSpan(runs, responseIndex, r) ?? anchors.response, `The values of '${response.name}' lie too far apart (beyond about 1e150) for their squares to be computed: check this value or change the response's unit.`));
@@ -117,7 +134,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   // Level codes are compacted to the levels that occur among the selected runs, so that a declared but
   // unused level does not show up as an aliased column.
   const compact = new Map<number, { codes: Int32Array; levels: number[] }>();
-  for (const f of allFactors) compact.set(f, compactCodes(runs.levels[f]!, design.factors[f]!.levels.length, selected));
+  allFactors.forEach((f, q) => compact.set(f, compactCodes(declaredCodes[q]!, design.factors[f]!.levels.length)));
 
   // Terms involving a factor seen at a single level cannot be estimated: drop them and say so.
   const terms: DesignTerm[] = [];
@@ -273,18 +290,20 @@ function copyProperties(out: Record<string, unknown>, from: object): void {
 }
 
 /**
- * A factor's level codes for the selected runs, compacted to the levels that occur among them (in declared
- * order), and the declared level of each code. One pass writes the declared levels as codes and marks the
- * levels present; a second pass renumbers only when some declared level is absent.
+ * A factor's level codes for the selected runs (`codes`, the declared levels, renumbered in place),
+ * compacted to the levels that occur among them (in declared order), and the declared level of each code.
+ * One pass marks the levels present; a second pass renumbers only when some declared level is absent.
  */
-function compactCodes(declared: Int32Array, levelCount: number, selected: readonly number[]): { codes: Int32Array; levels: number[] } {
-  const n = selected.length;
-  const codes = new Int32Array(n);
+function compactCodes(codes: Int32Array, levelCount: number): { codes: Int32Array; levels: number[] } {
+  const n = codes.length;
   const seen = new Uint8Array(levelCount);
-  for (let i = 0; i < n; i++) {
-    const level = declared[selected[i]!]!;
-    codes[i] = level;
-    seen[level] = 1;
+  let distinct = 0;
+  for (let i = 0; i < n && distinct < levelCount; i++) {
+    const level = codes[i]!;
+    if (seen[level] === 0) {
+      seen[level] = 1;
+      distinct++;
+    }
   }
   const levels: number[] = [];
   const map = new Int32Array(levelCount);

@@ -1,7 +1,7 @@
 import type { DecimalNumber, FactorDecl, Name, PlanSetting, RunRows, Span, TrialFile } from "../../../grammar/src/ast.js";
 import { cellText } from "../../../grammar/src/runs-table.js";
 import { type DecimalScan, emptyScan, rangeReason, scanDecimal, scanValue } from "../stats/decimal/parse-decimal.js";
-import { type DecimalColumn, decimalColumn, storeDecimal } from "../stats/decimal/center-decimals.js";
+import { type DecimalColumn, decimalColumn, storeDecimal, storePlainDecimal } from "../stats/decimal/center-decimals.js";
 import { type DuplicateRunIds, duplicateRunIds } from "./duplicate-run-ids.js";
 import type {
   Design,
@@ -626,6 +626,9 @@ function readRuns(
   // their order and most rows of a million are touched once.
   const checkedLevels: Int32Array[] = [];
   const checkedStatus: Uint8Array[] = [];
+  // Whether every row is regular and every cell read cleanly: then no row needs the second reading, and
+  // the loop over all rows below is skipped (the usual large run sheet).
+  let allClean = !anyExcluded && (duplicates === undefined || duplicates.rows.length === 0);
   for (let column = 0; column < columnCount; column++) {
     const kind = roleKind[column];
     const index = roleIndex[column]!;
@@ -637,8 +640,13 @@ function readRuns(
       for (let r = 0; r < count; r++) {
         const first = cellOffset[r]!;
         const pipe = pipeCell[r]!;
-        if (cellOffset[r + 1]! - first !== columnCount || (pipe >= 0 && headerHasPipe && pipe !== leftCount)) continue;
-        out[r] = findLevel(source, rows, first + column, names, byName);
+        if (cellOffset[r + 1]! - first !== columnCount || (pipe >= 0 && headerHasPipe && pipe !== leftCount)) {
+          allClean = false;
+          continue;
+        }
+        const level = findLevel(source, rows, first + column, names, byName);
+        if (level < 0) allClean = false;
+        out[r] = level;
       }
     } else if (kind === Role.Response || kind === Role.Covariate) {
       const response = kind === Role.Response;
@@ -649,14 +657,22 @@ function readRuns(
       for (let r = 0; r < count; r++) {
         const first = cellOffset[r]!;
         const pipe = pipeCell[r]!;
-        if (cellOffset[r + 1]! - first !== columnCount || (pipe >= 0 && headerHasPipe && pipe !== leftCount)) continue;
+        if (cellOffset[r + 1]! - first !== columnCount || (pipe >= 0 && headerHasPipe && pipe !== leftCount)) {
+          allClean = false;
+          continue;
+        }
         const cell = first + column;
         const read = readValue(source, rows, cell, values, r);
+        if (read !== CellValue.Measured) allClean = false;
         status[r] = read === CellValue.Measured ? ValueStatus.Measured : read === CellValue.Pending && response ? ValueStatus.Pending : ValueStatus.Invalid;
         cells[r] = cell;
       }
     }
   }
+  // A table whose header has no factor or value column reads no row above: its rows are then checked
+  // for regularity below as before.
+  if (allClean && checkedLevels.length + checkedStatus.length === 0) allClean = false;
+  if (allClean) return runs;
 
   rows: for (let r = 0; r < count; r++) {
     const mark = anyExcluded ? rows.excluded.get(r) : undefined;
@@ -863,6 +879,8 @@ const enum CellValue {
  */
 function readValue(source: string, rows: RunRows, cell: number, values: DecimalColumn, r: number): CellValue {
   const quoted = rows.cellFlags[cell] !== 0;
+  // The usual measured value ("21.74") is decomposed and stored in one pass over its characters.
+  if (!quoted && storePlainDecimal(source, rows.cellStart[cell]!, rows.cellEnd[cell]!, values, r)) return CellValue.Measured;
   const text = quoted ? cellText(source, rows, cell) : source;
   const from = quoted ? 0 : rows.cellStart[cell]!;
   const to = quoted ? text.length : rows.cellEnd[cell]!;
@@ -948,15 +966,34 @@ function checkCells(design: Design, file: TrialFile, sink: DiagnosticSink): void
   if (cellCount > MAX_CELLS || design.factors.some((f, i) => cellFactors.includes(i) && f.levels.length === 0)) return;
 
   const { runs } = design;
-  const cellOfRun = cellIndexOfRuns(design);
+  // One pass over the runs finds each run's cell (as cellIndexOfRuns, without storing it) and counts the
+  // planned runs and every response's measured values per cell. The per-run cells are built only for a
+  // missing-replicate finding, which lists the other runs of its cell.
   const planned = new Int32Array(cellCount);
   const firstRun = new Int32Array(cellCount).fill(-1);
+  const responseCount = design.responses.length;
+  const measuredCounts = new Int32Array(cellCount * responseCount);
+  const levelArrays = cellFactors.map((f) => runs.levels[f]!);
+  const radices = Int32Array.from(cellFactors, (f) => design.factors[f]!.levels.length);
+  const statusArrays = runs.responseStatus;
+  const excluded = runs.excluded;
   for (let r = 0; r < runs.count; r++) {
-    const c = cellOfRun[r]!;
-    if (c < 0 || runs.excluded[r]) continue;
+    if (excluded[r]) continue;
+    let c = 0;
+    for (let q = 0; q < levelArrays.length; q++) {
+      const level = levelArrays[q]![r]!;
+      if (level < 0) {
+        c = -1;
+        break;
+      }
+      c = c * radices[q]! + level;
+    }
+    if (c < 0) continue;
     planned[c]!++;
     if (firstRun[c]! < 0) firstRun[c] = r;
+    for (let k = 0; k < responseCount; k++) if (statusArrays[k]![r] === ValueStatus.Measured) measuredCounts[k * cellCount + c]!++;
   }
+  let cellsOfRuns: Int32Array | undefined;
 
   const replicates = design.settings.replicates;
   const runsKeyword = file.runs!.keywordSpan;
@@ -968,6 +1005,7 @@ function checkCells(design: Design, file: TrialFile, sink: DiagnosticSink): void
     } else if (replicates !== undefined && planned[c]! < replicates) {
       const missing = replicates - planned[c]!;
       const related = [];
+      const cellOfRun = (cellsOfRuns ??= cellIndexOfRuns(design));
       for (let r = 0; r < runs.count; r++) {
         if (cellOfRun[r] === c && !runs.excluded[r] && r !== firstRun[c]) related.push({ span: runRowSpan(runs, r), message: `another run of ${describeCell(design, c)}` });
       }
@@ -985,12 +1023,7 @@ function checkCells(design: Design, file: TrialFile, sink: DiagnosticSink): void
   // Centre points are one cell with several runs by design: that imbalance is planned, not a finding.
   if ((design.centrePoints ?? 0) > 0) return;
   design.responses.forEach((response, k) => {
-    const measured = new Int32Array(cellCount);
-    const status = runs.responseStatus[k]!;
-    for (let r = 0; r < runs.count; r++) {
-      const c = cellOfRun[r]!;
-      if (c >= 0 && !runs.excluded[r] && status[r] === ValueStatus.Measured) measured[c]!++;
-    }
+    const measured = measuredCounts.subarray(k * cellCount, (k + 1) * cellCount);
     let min = Infinity;
     let max = 0;
     for (let c = 0; c < cellCount; c++) {

@@ -40,6 +40,8 @@ export type CenterDecimalsResult =
       readonly offset: number;
       /** values[i] is the double nearest to the exact decimal difference texts[i] - offset. */
       readonly values: Float64Array;
+      /** The largest magnitude among `values` (0 when there are none), found as they are computed. */
+      readonly largestMagnitude: number;
     }
   | {
       readonly ok: false;
@@ -83,6 +85,57 @@ export function storeDecimal(column: DecimalColumn, index: number, scan: Decimal
   }
   column.mantissa[index] = scan.negative ? -scan.mantissa : scan.mantissa;
   column.exponent[index] = scan.significantCount === 0 ? 0 : scan.exponent;
+}
+
+/**
+ * Stores the decimal written in `text[start, end)` at `index` when it is a plain one (an optional sign,
+ * digits with at most one decimal point, no exponent, at most 15 significant digits and a last significant
+ * digit within 10^±22) and returns true: exactly what `storeDecimal` of its `scanDecimal` stores, in one
+ * pass without a scan record. Returns false, storing nothing, for anything else (then scan it in full).
+ * Such a value is always a usable, finite, nonzero-or-zero double, so no range check is needed.
+ */
+export function storePlainDecimal(text: string, start: number, end: number, column: DecimalColumn, index: number): boolean {
+  let i = start;
+  if (i >= end) return false;
+  let negative = false;
+  const first = text.charCodeAt(i);
+  if (first === 43 /* + */ || first === 45 /* - */) {
+    negative = first === 45;
+    i++;
+  }
+  let mantissa = 0;
+  let significant = 0;
+  let pendingZeros = 0;
+  let fractionDigits = 0;
+  let digits = 0;
+  let afterPoint = false;
+  for (; i < end; i++) {
+    const code = text.charCodeAt(i);
+    if (code === 46 /* . */) {
+      if (afterPoint) return false;
+      afterPoint = true;
+      continue;
+    }
+    const digit = code - 48;
+    if (digit < 0 || digit > 9) return false;
+    digits++;
+    if (afterPoint) fractionDigits++;
+    if (digit === 0) {
+      // Leading zeros are skipped; others are held back until a nonzero digit shows they are not trailing.
+      if (significant > 0) pendingZeros++;
+      continue;
+    }
+    for (let z = 0; z < pendingZeros; z++) mantissa *= 10;
+    mantissa = mantissa * 10 + digit;
+    significant += pendingZeros + 1;
+    pendingZeros = 0;
+  }
+  if (digits === 0 || significant > 15) return false;
+  const exponent = significant === 0 ? 0 : pendingZeros - fractionDigits;
+  if (exponent > 22 || exponent < -22) return false;
+  column.mantissa[index] = negative ? -mantissa : mantissa;
+  column.exponent[index] = exponent;
+  return true;
 }
 
 /**
@@ -169,6 +222,7 @@ export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<numbe
   const power = fastScale ? EXACT_POWERS_OF_TEN[Math.abs(scale)] : NaN;
   const values = new Float64Array(n);
   let offsetBig: bigint | undefined;
+  let largest = 0;
   for (let i = 0; i < n; i++) {
     const row = rows[i]!;
     let result = NaN;
@@ -202,8 +256,10 @@ export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<numbe
       return { ok: false, index: i, reason: `${textOf(row)} minus the offset ${offsetText} is too large for a finite double` };
     }
     values[i] = result;
+    const magnitude = Math.abs(result);
+    if (magnitude > largest) largest = magnitude;
   }
-  return { ok: true, offsetText, offset: Number(offsetText), values };
+  return { ok: true, offsetText, offset: Number(offsetText), values, largestMagnitude: largest };
 }
 
 interface Offset {

@@ -34,30 +34,13 @@ export interface BalancedLayout {
  */
 export function balancedLayout(input: LinearModelInput): BalancedLayout | null {
   const n = input.y.length;
-  if (input.terms.length === 0 || input.terms.some((t) => t.covariates.length > 0 || t.factors.length === 0)) return null;
-  const factors = [...new Set(input.terms.flatMap((t) => t.factors))].sort((a, b) => a - b);
-  if (factors.length > 24) return null;
-  const levels = factors.map((f) => input.factors[f]!.levelCount);
-  if (levels.some((l) => l < 2)) return null;
-  let cellCount = 1;
-  for (const l of levels) {
-    cellCount *= l;
-    if (cellCount > n) return null;
-  }
-  const termMasks = input.terms.map((t) => t.factors.reduce((m, f) => m | (1 << factors.indexOf(f)), 0));
-  const maskSet = new Set(termMasks);
-  for (const mask of termMasks) {
-    for (let sub = (mask - 1) & mask; sub > 0; sub = (sub - 1) & mask) if (!maskSet.has(sub)) return null;
-  }
+  const eligible = balancedEligibility(input);
+  if (!eligible) return null;
+  const { factors, levels, cellCount, termMasks } = eligible;
   // Counted first without storing each run's cell: most unbalanced designs are rejected here, before a
   // per-run array is allocated. Mixed radix, the first involved factor fastest.
   const codes = factors.map((f) => input.factors[f]!.codes);
-  const strides = new Int32Array(factors.length);
-  let stride = 1;
-  for (let q = 0; q < factors.length; q++) {
-    strides[q] = stride;
-    stride *= levels[q]!;
-  }
+  const strides = stridesOf(levels);
   const counts = new Int32Array(cellCount);
   for (let i = 0; i < n; i++) {
     let cell = 0;
@@ -74,6 +57,69 @@ export function balancedLayout(input: LinearModelInput): BalancedLayout | null {
     for (let i = 0; i < n; i++) cellOfRun[i]! += factorCodes[i]! * step;
   }
   return { factors, levels, cellOfRun, cellCount, perCell, termMasks };
+}
+
+/**
+ * As {@link balancedLayout}, decided from the non-empty cells the cell path has already found (`cellOfRun`
+ * numbering cells in any order, `cellCodes` each cell's level code per input factor, `counts` its runs):
+ * the balance test then costs no pass over the observations, and an unbalanced design (the usual case at
+ * scale) allocates nothing. The same layout as `balancedLayout`, cell for cell. `cellOfRun` may be
+ * overwritten (with the mixed-radix cells) when the design is balanced.
+ */
+export function balancedLayoutFromCells(
+  input: LinearModelInput,
+  cells: { readonly cellOfRun: Int32Array; readonly cellCount: number; readonly cellCodes: readonly Int32Array[] },
+  counts: Float64Array,
+): BalancedLayout | null {
+  const eligible = balancedEligibility(input);
+  if (!eligible) return null;
+  const { factors, levels, cellCount, termMasks } = eligible;
+  // Every crossed cell non-empty and all holding the same number of runs.
+  if (cells.cellCount !== cellCount) return null;
+  const perCell = counts[0]!;
+  if (!(perCell >= 1)) return null;
+  for (let c = 1; c < cellCount; c++) if (counts[c] !== perCell) return null;
+  const strides = stridesOf(levels);
+  const mixed = new Int32Array(cellCount);
+  for (let c = 0; c < cellCount; c++) {
+    let cell = 0;
+    for (let q = 0; q < factors.length; q++) cell += cells.cellCodes[factors[q]!]![c]! * strides[q]!;
+    mixed[c] = cell;
+  }
+  const cellOfRun = cells.cellOfRun;
+  for (let i = 0; i < cellOfRun.length; i++) cellOfRun[i] = mixed[cellOfRun[i]!]!;
+  return { factors, levels, cellOfRun, cellCount, perCell, termMasks };
+}
+
+/** The structural conditions of `balancedLayout` (everything but the counts), or null. */
+function balancedEligibility(input: LinearModelInput): { factors: number[]; levels: number[]; cellCount: number; termMasks: number[] } | null {
+  const n = input.y.length;
+  if (input.terms.length === 0 || input.terms.some((t) => t.covariates.length > 0 || t.factors.length === 0)) return null;
+  const factors = [...new Set(input.terms.flatMap((t) => t.factors))].sort((a, b) => a - b);
+  if (factors.length > 24) return null;
+  const levels = factors.map((f) => input.factors[f]!.levelCount);
+  if (levels.some((l) => l < 2)) return null;
+  let cellCount = 1;
+  for (const l of levels) {
+    cellCount *= l;
+    if (cellCount > n) return null;
+  }
+  const termMasks = input.terms.map((t) => t.factors.reduce((m, f) => m | (1 << factors.indexOf(f)), 0));
+  const maskSet = new Set(termMasks);
+  for (const mask of termMasks) {
+    for (let sub = (mask - 1) & mask; sub > 0; sub = (sub - 1) & mask) if (!maskSet.has(sub)) return null;
+  }
+  return { factors, levels, cellCount, termMasks };
+}
+
+function stridesOf(levels: readonly number[]): Int32Array {
+  const strides = new Int32Array(levels.length);
+  let stride = 1;
+  for (let q = 0; q < levels.length; q++) {
+    strides[q] = stride;
+    stride *= levels[q]!;
+  }
+  return strides;
 }
 
 /** Computes the model core of an eligible design (see `balancedLayout`) from cell sums. */

@@ -48,6 +48,22 @@ const DENSE_KEYS = 1 << 22;
  * non-empty cells than observations (otherwise the general path costs the same). Null otherwise.
  */
 export function cellLayout(input: LinearModelInput): CellLayout | null {
+  return cellLayoutWithStatistics(input)?.layout ?? null;
+}
+
+/** A cell layout and the cell statistics of the input's response over it (see `cellLayoutWithStatistics`). */
+export interface CellsOfInput {
+  readonly layout: CellLayout;
+  readonly statistics: CellStatistics;
+}
+
+/**
+ * `cellLayout` and `cellStatistics` of the input's response together, bit for bit the same: with a dense
+ * key space the cell of each observation is found and its first-pass sums accumulated in one pass over the
+ * observations (each cell still sums its runs in observation order), instead of one pass per factor, one
+ * numbering pass and one summing pass. Null when the cell path does not apply.
+ */
+export function cellLayoutWithStatistics(input: LinearModelInput): CellsOfInput | null {
   const n = input.y.length;
   if (input.terms.some((t) => t.covariates.length > 0)) return null;
   const used = [...new Set(input.terms.flatMap((t) => t.factors))].sort((a, b) => a - b);
@@ -56,51 +72,80 @@ export function cellLayout(input: LinearModelInput): CellLayout | null {
   if (!Number.isSafeInteger(keySpace)) return null;
   const codes = used.map((f) => input.factors[f]!.codes);
   const radix = used.map((f) => input.factors[f]!.levelCount);
+  if (keySpace > DENSE_KEYS) {
+    const layout = sparseCellLayout(input, used, codes, radix);
+    return layout ? { layout, statistics: cellStatistics(input.y, layout) } : null;
+  }
+  const y = input.y;
+  const cellOfRun = new Int32Array(n);
+  const dense = new Int32Array(keySpace).fill(-1);
+  // Accumulators for at most min(keySpace, n) cells, numbered in order of first appearance.
+  const room = Math.min(keySpace, n);
+  const firstRun = new Int32Array(room);
+  const counts = new Float64Array(room);
+  const sums = new Float64Array(room);
+  const compensation = new Float64Array(room);
+  let cellCount = 0;
+  // Up to two factors read from locals (the common designs); more through the arrays of codes.
+  const a = codes.length > 0 ? codes[0]! : null;
+  const b = codes.length > 1 ? codes[1]! : null;
+  const radixB = codes.length > 1 ? radix[1]! : 1;
+  const few = codes.length <= 2;
+  for (let i = 0; i < n; i++) {
+    let key: number;
+    if (few) key = (a === null ? 0 : a[i]!) * radixB + (b === null ? 0 : b[i]!);
+    else {
+      key = 0;
+      for (let q = 0; q < codes.length; q++) key = key * radix[q]! + codes[q]![i]!;
+    }
+    let c = dense[key]!;
+    if (c < 0) {
+      if (cellCount + 1 >= n) return null;
+      c = cellCount++;
+      firstRun[c] = i;
+      dense[key] = c;
+    }
+    cellOfRun[i] = c;
+    // First pass of cellStatistics (Neumaier 1974), the same operations in the same order per cell.
+    const v = y[i]!;
+    const s = sums[c]!;
+    const t = s + v;
+    compensation[c]! += Math.abs(s) >= Math.abs(v) ? s - t + v : v - t + s;
+    sums[c] = t;
+    counts[c]!++;
+  }
+  const layout = { cellOfRun, cellCount, cellCodes: cellCodesOf(input, used, firstRun, cellCount) };
+  const statistics = finishCellStatistics(y, cellOfRun, cellCount, counts.slice(0, cellCount), sums.slice(0, cellCount), compensation.slice(0, cellCount));
+  return { layout, statistics };
+}
+
+/** The layout through a map of keys, for key spaces too large for a dense index. */
+function sparseCellLayout(input: LinearModelInput, used: readonly number[], codes: readonly Int32Array[], radix: readonly number[]): CellLayout | null {
+  const n = input.y.length;
   const cellOfRun = new Int32Array(n);
   const firstRun: number[] = [];
-  const dense = keySpace <= DENSE_KEYS ? new Int32Array(keySpace).fill(-1) : null;
-  const sparse = dense ? null : new Map<number, number>();
-  if (dense) {
-    // Keys factor by factor over typed arrays held in locals (they fit an Int32Array: keySpace <= 2^22),
-    // then one pass numbering the cells in order of first appearance.
-    const keys = cellOfRun;
-    for (let q = 0; q < codes.length; q++) {
-      const factorCodes = codes[q]!;
-      const r = radix[q]!;
-      for (let i = 0; i < n; i++) keys[i] = keys[i]! * r + factorCodes[i]!;
+  const sparse = new Map<number, number>();
+  for (let i = 0; i < n; i++) {
+    let key = 0;
+    for (let q = 0; q < codes.length; q++) key = key * radix[q]! + codes[q]![i]!;
+    let cell = sparse.get(key) ?? -1;
+    if (cell < 0) {
+      cell = firstRun.length;
+      firstRun.push(i);
+      if (firstRun.length >= n) return null;
+      sparse.set(key, cell);
     }
-    for (let i = 0; i < n; i++) {
-      const key = keys[i]!;
-      let cell = dense[key]!;
-      if (cell < 0) {
-        cell = firstRun.length;
-        firstRun.push(i);
-        if (firstRun.length >= n) return null;
-        dense[key] = cell;
-      }
-      keys[i] = cell;
-    }
-  } else {
-    for (let i = 0; i < n; i++) {
-      let key = 0;
-      for (let q = 0; q < codes.length; q++) key = key * radix[q]! + codes[q]![i]!;
-      let cell = sparse!.get(key) ?? -1;
-      if (cell < 0) {
-        cell = firstRun.length;
-        firstRun.push(i);
-        if (firstRun.length >= n) return null;
-        sparse!.set(key, cell);
-      }
-      cellOfRun[i] = cell;
-    }
+    cellOfRun[i] = cell;
   }
-  const cellCount = firstRun.length;
-  const cellCodes = input.factors.map((f, k) => {
+  return { cellOfRun, cellCount: firstRun.length, cellCodes: cellCodesOf(input, used, firstRun, firstRun.length) };
+}
+
+function cellCodesOf(input: LinearModelInput, used: readonly number[], firstRun: ArrayLike<number>, cellCount: number): Int32Array[] {
+  return input.factors.map((f, k) => {
     const out = new Int32Array(cellCount);
     if (used.includes(k)) for (let c = 0; c < cellCount; c++) out[c] = f.codes[firstRun[c]!]!;
     return out;
   });
-  return { cellOfRun, cellCount, cellCodes };
 }
 
 /** Count, mean and within-cell sum of squares of every cell. */
@@ -127,6 +172,12 @@ export function cellStatistics(y: Float64Array, layout: CellLayout): CellStatist
     sums[c] = t;
     counts[c]!++;
   }
+  return finishCellStatistics(y, cellOfRun, cellCount, counts, sums, compensation);
+}
+
+/** The means from the first pass's compensated sums, then the correcting second pass (module comment). */
+function finishCellStatistics(y: Float64Array, cellOfRun: Int32Array, cellCount: number, counts: Float64Array, sums: Float64Array, compensation: Float64Array): CellStatistics {
+  const n = y.length;
   const means = new Float64Array(cellCount);
   for (let c = 0; c < cellCount; c++) means[c] = (sums[c]! + compensation[c]!) / counts[c]!;
   const deviation = sums.fill(0);
@@ -150,13 +201,13 @@ export function cellStatistics(y: Float64Array, layout: CellLayout): CellStatist
  * Computes the model core from cell statistics, or returns null when the cell path does not apply (see
  * `cellLayout`); the caller then uses the general QR path. Agrees with `qrModelCore` to rounding.
  */
-export function cellModelCore(input: LinearModelInput): ModelCore | null {
-  const layout = cellLayout(input);
-  if (!layout) return null;
+export function cellModelCore(input: LinearModelInput, cells: CellsOfInput | null = cellLayoutWithStatistics(input)): ModelCore | null {
+  if (!cells) return null;
+  const { layout } = cells;
   const { y } = input;
   const n = y.length;
   const m = layout.cellCount;
-  const { counts, means, withinSs } = cellStatistics(y, layout);
+  const { counts, means, withinSs } = cells.statistics;
 
   // The weighted cell-level problem: rows sqrt(n_c) x_c, responses sqrt(n_c) ybar_c.
   const weights = new Float64Array(m);
@@ -180,17 +231,13 @@ export function cellModelCore(input: LinearModelInput): ModelCore | null {
     cellFitted[c] = core.fitted[c]! / weights[c]!;
     cellLeverage[c] = core.leverage[c]! / counts[c]!;
   }
-  const residuals = new Float64Array(n);
-  const leverage = new Float64Array(n);
+  // The per-observation fitted values, residuals and leverages are the cells' values spread back; they
+  // are spread back on first read only, and kept: a consumer that reads none of them (the text report)
+  // then costs no per-observation array and no pass.
   const { cellOfRun } = layout;
-  for (let i = 0; i < n; i++) {
-    const c = cellOfRun[i]!;
-    residuals[i] = y[i]! - cellFitted[c]!;
-    leverage[i] = cellLeverage[c]!;
-  }
-  // The per-observation fitted values are the cells' fitted values spread back; few consumers read them
-  // (the per-run residual rows), so they are spread back on first read only, and kept.
   let fitted: Float64Array | undefined;
+  let residuals: Float64Array | undefined;
+  let leverage: Float64Array | undefined;
   return {
     ...core,
     method: "cells",
@@ -202,7 +249,19 @@ export function cellModelCore(input: LinearModelInput): ModelCore | null {
       }
       return fitted;
     },
-    residuals,
-    leverage,
+    get residuals(): Float64Array {
+      if (residuals === undefined) {
+        residuals = new Float64Array(n);
+        for (let i = 0; i < n; i++) residuals[i] = y[i]! - cellFitted[cellOfRun[i]!]!;
+      }
+      return residuals;
+    },
+    get leverage(): Float64Array {
+      if (leverage === undefined) {
+        leverage = new Float64Array(n);
+        for (let i = 0; i < n; i++) leverage[i] = cellLeverage[cellOfRun[i]!]!;
+      }
+      return leverage;
+    },
   };
 }

@@ -19,32 +19,40 @@
  */
 
 import { fUpperTail } from "../distributions/f-distribution.js";
-import { balancedLayout, balancedModelCore } from "./balanced-fast-path.js";
+import { balancedLayout, balancedLayoutFromCells, balancedModelCore } from "./balanced-fast-path.js";
 import { caseStatisticValues, nullWhereNaN } from "./case-statistics.js";
-import { cellModelCore } from "./cell-path.js";
+import { cellLayoutWithStatistics, cellModelCore } from "./cell-path.js";
 import { mean } from "./design-matrix.js";
 import { termEffectSize } from "./effect-sizes.js";
 import { termSource, type ModelCore } from "./model-core.js";
-import { isZeroResidual } from "./nested-fits.js";
+import { isZeroResidualOfMagnitude } from "./nested-fits.js";
 import { qrModelCore } from "./qr-path.js";
 import type { AnovaTermRow, LinearModelInput, LinearModelResult, ModelFailure, ModelNote } from "./types.js";
-import { validateModelInput } from "./validate-input.js";
+import { validateModelInput, validateModelTerms } from "./validate-input.js";
 
 /** Fits the model of `input` and returns its ANOVA table and diagnostics, or a failure with a reason. Never throws on bad input. */
 export function fitLinearModel(input: LinearModelInput): LinearModelResult | ModelFailure {
-  const invalid = validateModelInput(input);
-  if (invalid) return invalid;
+  // One fused pass answers "well formed?" and "all equal?" for the usual input; only input it flags is
+  // validated again value by value, for the same first problem and sentence as before.
+  const scan = quickScan(input);
+  if (!scan.clean) {
+    const invalid = validateModelInput(input);
+    if (invalid) return invalid;
+  }
   const { y } = input;
   const n = y.length;
   if (n === 0) return { ok: false, code: "no-data", reason: "There are no observations to analyse." };
   if (n === 1) {
     return { ok: false, code: "single-observation", reason: "There is a single observation; an analysis of variance needs at least two." };
   }
-  if (allEqual(y)) {
+  if (scan.clean ? scan.allEqual : allEqual(y)) {
     return { ok: false, code: "zero-variance", reason: `All ${n} observations have the same value; there is no variation to analyse.` };
   }
-  const layout = balancedLayout(input);
-  const core = layout ? balancedModelCore(input, layout) : (cellModelCore(input) ?? qrModelCore(input));
+  // The cells (and their statistics) are found first when the cell path applies: the balance test then
+  // reads their counts instead of passing over the observations again.
+  const cells = cellLayoutWithStatistics(input);
+  const layout = cells ? balancedLayoutFromCells(input, cells.layout, cells.statistics.counts) : balancedLayout(input);
+  const core = layout ? balancedModelCore(input, layout) : (cellModelCore(input, cells) ?? qrModelCore(input));
   return assembleResult(input, core);
 }
 
@@ -56,7 +64,17 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
   const residualDf = n - core.rank;
   const residualSs = core.residualSs;
   const residualMs = residualDf > 0 ? residualSs / residualDf : null;
-  const zeroResidual = isZeroResidual(residualSs, y);
+  // The centre, total sum of squares and largest magnitude of y (for the zero-residual test) in the
+  // same two passes of a compensated mean and one pass of squares as `mean` and `isZeroResidual`.
+  const centre = mean(y);
+  let totalSs = 0;
+  let maxAbs = 0;
+  for (let i = 0; i < n; i++) {
+    const v = y[i]!;
+    totalSs += (v - centre) ** 2;
+    maxAbs = Math.max(maxAbs, Math.abs(v));
+  }
+  const zeroResidual = isZeroResidualOfMagnitude(residualSs, n, maxAbs);
   const testable = residualMs !== null && !zeroResidual;
   if (residualDf <= 0) {
     notes.push({
@@ -82,9 +100,6 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
     return { source: termSource(input, term), df, ss, ...fTest(ss, df, residualSs, residualDf, testable) };
   });
 
-  const centre = mean(y);
-  let totalSs = 0;
-  for (let i = 0; i < n; i++) totalSs += (y[i]! - centre) ** 2;
   const explainedPlusResidual = core.modelSs + residualSs;
   const rSquared = explainedPlusResidual > 0 ? finiteOrNull(core.modelSs / explainedPlusResidual) : null;
   const residualSd = residualMs !== null ? Math.sqrt(residualMs) : null;
@@ -110,8 +125,13 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
     get fitted(): Float64Array {
       return core.fitted;
     },
-    residuals: core.residuals,
-    leverage: core.leverage,
+    // Getters as well: the cell path spreads its residuals and leverages back on first read only.
+    get residuals(): Float64Array {
+      return core.residuals;
+    },
+    get leverage(): Float64Array {
+      return core.leverage;
+    },
     get standardized(): (number | null)[] {
       return (standardized ??= nullWhereNaN(caseValues().standardized));
     },
@@ -139,6 +159,42 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
     aliased: core.aliased,
     notes,
   };
+}
+
+/**
+ * One pass over the observations and the factor codes: `clean` when every response value is finite and
+ * every code within its factor's levels (and the lengths and level counts agree), and whether all values
+ * equal the first. Input that is not clean goes through `validateModelInput` for its sentence.
+ */
+function quickScan(input: LinearModelInput): { clean: boolean; allEqual: boolean } {
+  const { y } = input;
+  const n = y.length;
+  const dirty = { clean: false, allEqual: false };
+  for (const f of input.factors) if (!Number.isInteger(f.levelCount) || f.levelCount < 1 || f.codes.length !== n) return dirty;
+  for (const c of input.covariates) if (c.values.length !== n) return dirty;
+  if (input.factors.length > 2 || input.covariates.length > 0) return { clean: false, allEqual: false };
+  const a = input.factors.length > 0 ? input.factors[0]!.codes : null;
+  const b = input.factors.length > 1 ? input.factors[1]!.codes : null;
+  const la = a === null ? 1 : input.factors[0]!.levelCount;
+  const lb = b === null ? 1 : input.factors[1]!.levelCount;
+  const first = n > 0 ? y[0]! : 0;
+  let equal = true;
+  for (let i = 0; i < n; i++) {
+    const v = y[i]!;
+    // v - v is 0 for a finite value and NaN for NaN or an infinity.
+    if (v - v !== 0) return dirty;
+    if (v !== first) equal = false;
+    if (a !== null) {
+      const ca = a[i]!;
+      if (ca < 0 || ca >= la) return dirty;
+    }
+    if (b !== null) {
+      const cb = b[i]!;
+      if (cb < 0 || cb >= lb) return dirty;
+    }
+  }
+  // The terms (a handful) are checked by the full validation, which then reads no observation again.
+  return validateModelTerms(input) === null ? { clean: true, allEqual: equal } : dirty;
 }
 
 /** Whether every value equals the first (a plain loop: no callback per observation). */

@@ -48,6 +48,11 @@ export function blockSumOfSquares(
 export function isZeroResidual(residualSs: number, y: Float64Array): boolean {
   let maxAbs = 0;
   for (let i = 0; i < y.length; i++) maxAbs = Math.max(maxAbs, Math.abs(y[i]!));
+  return isZeroResidualOfMagnitude(residualSs, y.length, maxAbs);
+}
+
+/** {@link isZeroResidual} for `n` observations whose largest magnitude `maxAbs` the caller has already found. */
+export function isZeroResidualOfMagnitude(residualSs: number, n: number, maxAbs: number): boolean {
   const noise = 1000 * Number.EPSILON * maxAbs;
-  return residualSs <= y.length * noise * noise;
+  return residualSs <= n * noise * noise;
 }

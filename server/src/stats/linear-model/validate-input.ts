@@ -28,6 +28,15 @@ export function validateModelInput(input: LinearModelInput): ModelFailure | null
       if (!Number.isFinite(c.values[i]!)) return fail(`Covariate "${c.name}" value ${i + 1} is not a finite number.`);
     }
   }
+  return validateModelTerms(input);
+}
+
+/**
+ * The checks of {@link validateModelInput} that read no observation (the terms and the sums-of-squares
+ * type): the first problem among them, or null. For a caller that has checked the values in a pass of its own.
+ */
+export function validateModelTerms(input: LinearModelInput): ModelFailure | null {
+  const fail = (reason: string): ModelFailure => ({ ok: false, code: "invalid-input", reason });
   const seen = new Set<string>();
   for (const [t, term] of input.terms.entries()) {
     if (term.factors.length + term.covariates.length === 0) return fail(`Term ${t + 1} names no factor and no covariate.`);
