@@ -7,11 +7,11 @@
  *
  * A tight loop over character codes, with no object and no regular expression per cell: a million-run
  * table is about 24 MB of text and must be read in about a tenth of a second. One table load per
- * character classifies it (`CLASS`); the typed-array columns are written directly in the loop (no method
- * call per cell) and sized once from a sampled line count (`line-density.ts`), so a uniform table never
- * regrows. Only problems (rare) allocate. What remains of the cost is mostly the character loop itself
- * and the first touch of the ~48 MB of fresh column memory (page faults), which any reader that
- * produces these columns pays.
+ * character classifies it (`CLASS`); the typed-array columns are written directly by a small row reader
+ * called once per row (no method call per cell) and sized once from a sampled line count
+ * (`line-density.ts`), so a uniform table never regrows. Only problems (rare) allocate. What remains of
+ * the cost is mostly the character loop itself and the first touch of the ~48 MB of fresh column memory
+ * (page faults), which any reader that produces these columns pays.
  */
 import { CellFlag, type ExcludedMark, type RunRows, type SyntaxProblem } from "./ast.js";
 import { estimateLineFeeds } from "./line-density.js";
@@ -135,38 +135,80 @@ function trimmed8(data: Uint8Array, used: number): Uint8Array {
 }
 
 /**
+ * The columns being filled and the scanner's running state: one object of one shape for the whole scan,
+ * so the row readers below are ordinary small functions that take it as an argument (no closure per row).
+ */
+class RowsBuilder {
+  rowCap: number;
+  cellCap: number;
+  rowStart: Int32Array;
+  rowEnd: Int32Array;
+  cellOffset: Int32Array;
+  pipeCell: Int32Array;
+  cellStart: Int32Array;
+  cellEnd: Int32Array;
+  cellFlags: Uint8Array;
+  rowCount = 0;
+  cellCount = 0;
+  rowsWithPipe = 0;
+  /** End of the last run of glued characters reported after a closing quote (see `readRow`). */
+  glueEnd = -1;
+  readonly excluded = new Map<number, ExcludedMark>();
+  readonly problems: SyntaxProblem[] = [];
+  readonly problemRows: number[] = [];
+
+  constructor(rowCap: number) {
+    // Rows: sized once from the line density. Cells: four a row to start with (a typical small design),
+    // then extrapolated from the cells per row read so far.
+    this.rowCap = rowCap;
+    this.cellCap = rowCap * 4;
+    this.rowStart = new Int32Array(rowCap);
+    this.rowEnd = new Int32Array(rowCap);
+    this.cellOffset = new Int32Array(rowCap + 1); // cellOffset[0] = 0: typed arrays start zeroed
+    this.pipeCell = new Int32Array(rowCap);
+    this.cellStart = new Int32Array(this.cellCap);
+    this.cellEnd = new Int32Array(this.cellCap);
+    this.cellFlags = new Uint8Array(this.cellCap);
+  }
+}
+
+/** Makes room for more rows (past an estimate that was too low). */
+function growRows(b: RowsBuilder): void {
+  b.rowCap = b.rowCap + (b.rowCap >> 1) + 16;
+  b.rowStart = grow32(b.rowStart, b.rowCap);
+  b.rowEnd = grow32(b.rowEnd, b.rowCap);
+  b.cellOffset = grow32(b.cellOffset, b.rowCap + 1);
+  b.pipeCell = grow32(b.pipeCell, b.rowCap);
+}
+
+/** Makes room for more cells, extrapolating the cells per row read so far. */
+function growCells(b: RowsBuilder): void {
+  b.cellCap = grownCapacity(b.cellCap, b.cellCount, b.rowCount, Math.max(b.rowCap, b.rowCount + 1));
+  b.cellStart = grow32(b.cellStart, b.cellCap);
+  b.cellEnd = grow32(b.cellEnd, b.cellCap);
+  b.cellFlags = grow8(b.cellFlags, b.cellCap);
+}
+
+/**
  * Scans a runs-table body starting at `start`, the line break that ends the header line (the header
  * itself is not read), up to the first line (after a line feed) whose first word is a top-level keyword,
  * or up to `limit` (default: the end of `source`), whichever comes first. Returns the rows, the problems
  * found inside rows, and where the body ends. The `|` checks that need the header are left to
  * `runsBodyProblems`.
+ *
+ * The work is split so that the engine optimises it early and keeps it optimised: this loop only finds
+ * row starts; an ordinary row (bare cells, blanks, at most one `|`, a comment) is read by the small
+ * `readPlainRow`, called once per row and so compiled as an ordinary function after a few hundred rows,
+ * not by on-stack replacement of one large loop, which deoptimised several times on a cold first scan
+ * whenever it reached a branch it had not run before. Every other row (quotes, `excluded`, problems, a
+ * full cell column) is read from its start again by `readRow`, which handles everything.
  */
 export function scanRunsTable(source: string, start: number, limit: number = source.length): RunsBodyScan {
   const end = Math.max(start, Math.min(limit, source.length));
-  // Rows: sized once from the line density. Cells: four a row to start with (a typical small design),
-  // then extrapolated from the cells per row read so far.
-  let rowCap = estimateLineFeeds(source, start, end) + 1;
-  let cellCap = rowCap * 4;
-  let rowStart: Int32Array = new Int32Array(rowCap);
-  let rowEnd: Int32Array = new Int32Array(rowCap);
-  let cellOffset: Int32Array = new Int32Array(rowCap + 1);
-  let pipeCell: Int32Array = new Int32Array(rowCap);
-  let cellStart: Int32Array = new Int32Array(cellCap);
-  let cellEnd: Int32Array = new Int32Array(cellCap);
-  let cellFlags: Uint8Array = new Uint8Array(cellCap);
-  let rowCount = 0;
-  let cellCount = 0;
-  let rowsWithPipe = 0;
-  const excluded = new Map<number, ExcludedMark>();
-  const problems: SyntaxProblem[] = [];
-  const problemRows: number[] = [];
+  const b = new RowsBuilder(estimateLineFeeds(source, start, end) + 1);
   const table = CLASS;
-
-  // End of the last run of glued characters reported after a closing quote (see below).
-  let glueEnd = -1;
   let bodyEnd = end;
   let p = start;
-  cellOffset[0] = 0;
   while (p < end) {
     // At a line start (or the header's line break): skip the line break first. After a line feed, the
     // table ends if the line's first word (after spaces and tabs) is a top-level keyword: that line starts
@@ -198,174 +240,260 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
       p = skipToLineEnd(source, p, end);
       continue;
     }
-
-    // A row. `kind` is the class of the character at `p` (a line break past the end of the range).
-    if (rowCount === rowCap) {
-      rowCap = rowCap + (rowCap >> 1) + 16;
-      rowStart = grow32(rowStart, rowCap);
-      rowEnd = grow32(rowEnd, rowCap);
-      cellOffset = grow32(cellOffset, rowCap + 1);
-      pipeCell = grow32(pipeCell, rowCap);
-    }
-    const row = rowCount;
-    const firstCell = cellCount;
-    let pipe = -1;
-    let lastContentEnd = p;
-    let mark: ExcludedMark | undefined;
-    let kind = table[c]!;
-    rowStart[row] = p;
-    for (;;) {
-      if (kind === K_BLANK) {
-        p++;
-        kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
-        continue;
-      }
-      if (kind === K_BREAK) break;
-      if (kind === K_HASH) {
-        p = skipToLineEnd(source, p, end);
-        break;
-      }
-      if (mark !== undefined) {
-        // Anything but a comment after `excluded "reason"`.
-        const stop = skipToCommentOrLineEnd(source, p, end);
-        problems.push(
-          problem(
-            "unexpected text after the excluded reason: 'excluded \"reason\"' must end the row (put notes in a # comment)",
-            p,
-            trimEnd(source, p, stop),
-          ),
-        );
-        problemRows.push(row);
-        lastContentEnd = trimEnd(source, p, stop);
-        p = stop;
-        kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
-        continue;
-      }
-      if (kind === K_PIPE) {
-        if (pipe < 0) {
-          pipe = cellCount - firstCell;
-        } else {
-          problems.push(problem("a second '|' in this row: a row has one '|' between factor and response columns", p, p + 1));
-          problemRows.push(row);
-        }
-        lastContentEnd = p + 1;
-        p++;
-        kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
-        continue;
-      }
-      if (cellCount === cellCap) {
-        cellCap = grownCapacity(cellCap, cellCount, rowCount, Math.max(rowCap, rowCount + 1));
-        cellStart = grow32(cellStart, cellCap);
-        cellEnd = grow32(cellEnd, cellCap);
-        cellFlags = grow8(cellFlags, cellCap);
-      }
-      if (kind === K_QUOTE) {
-        const qEnd = scanQuoted(source, p, end);
-        const terminated = lastQuotedTerminated;
-        cellStart[cellCount] = p;
-        cellEnd[cellCount] = qEnd;
-        cellFlags[cellCount] = terminated ? CellFlag.Quoted : CellFlag.Quoted | CellFlag.Unterminated;
-        cellCount++;
-        if (!terminated) {
-          problems.push(problem("unterminated quoted cell: add the closing '\"'", p, qEnd));
-          problemRows.push(row);
-        } else if (qEnd < end && !endsBareCell(source.charCodeAt(qEnd))) {
-          // `"a"b`: report the glued characters and go on reading them as another cell. A run of glued
-          // quoted cells (`""""…`) shares one end: start from the one already found, or a long run would
-          // be rescanned once per cell (quadratic).
-          let e = qEnd < glueEnd ? glueEnd : qEnd;
-          while (e < end && !endsBareCell(source.charCodeAt(e))) e++;
-          glueEnd = e;
-          problems.push(problem("put a space after the closing quote: cells are separated by spaces or tabs", qEnd, e));
-          problemRows.push(row);
-        }
-        lastContentEnd = qEnd;
-        p = qEnd;
-        kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
-        continue;
-      }
-      // An unquoted cell: up to a blank, a line break, `|` or `#` (a quote inside it is stray). Its first
-      // character is an ordinary one (every other class is handled above).
-      const s = p;
-      let strayQuote = -1;
-      kind = K_BREAK;
-      while (++p < end) {
-        const k = table[source.charCodeAt(p)]!;
-        if (k !== 0) {
-          if (k !== K_QUOTE) {
-            kind = k;
-            break;
-          }
-          if (strayQuote < 0) strayQuote = p;
-        }
-      }
-      if (strayQuote >= 0) {
-        problems.push(
-          problem(
-            `stray '"' in cell '${source.slice(s, p)}': quote the whole cell ("...") and write \\" for a quote inside it`,
-            strayQuote,
-            strayQuote + 1,
-          ),
-        );
-        problemRows.push(row);
-      }
-      if (p - s === 8 && isExcludedWord(source, s, p)) {
-        // `excluded "reason"`: the reason must follow, quoted.
-        let r = p;
-        while (r < end && isBlank(source.charCodeAt(r))) r++;
-        if (r < end && source.charCodeAt(r) === QUOTE) {
-          const qEnd = scanQuoted(source, r, end);
-          const terminated = lastQuotedTerminated;
-          if (!terminated) {
-            problems.push(problem("unterminated excluded reason: add the closing '\"'", r, qEnd));
-            problemRows.push(row);
-          }
-          const reason = { text: unquote(source.slice(r, qEnd), terminated), span: { start: r, end: qEnd } };
-          mark = { span: { start: s, end: qEnd }, reason };
-          p = qEnd;
-          kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
-        } else {
-          mark = { span: { start: s, end: p } };
-          problems.push(problem('excluded needs a reason in quotes: excluded "why the run does not count"', s, p));
-          problemRows.push(row);
-        }
-        excluded.set(row, mark);
-        lastContentEnd = mark.span.end;
-        continue;
-      }
-      // The flags stay `CellFlag.None`, the zero every new column starts with: not writing them spares a
-      // store per cell, and the memory pages of a column of unquoted cells are never touched.
-      cellStart[cellCount] = s;
-      cellEnd[cellCount] = p;
-      cellCount++;
-      lastContentEnd = p;
-    }
-    rowEnd[row] = lastContentEnd;
-    pipeCell[row] = pipe;
-    if (pipe >= 0) rowsWithPipe++;
-    rowCount++;
-    cellOffset[rowCount] = cellCount;
+    // A row: its first character is an ordinary one, `|` or a quote.
+    if (b.rowCount === b.rowCap) growRows(b);
+    const q = readPlainRow(b, source, p, end);
+    p = q >= 0 ? q : readRow(b, source, p, end);
   }
+  return finishScan(b, bodyEnd);
+}
 
+/**
+ * The scan's result: columns trimmed to what was read. Kept out of `scanRunsTable`, whose loop is
+ * optimised while it runs: code after the loop has not run yet then, and would deoptimise it on the way
+ * out.
+ */
+function finishScan(b: RowsBuilder, bodyEnd: number): RunsBodyScan {
+  const rowCount = b.rowCount;
+  const cellCount = b.cellCount;
   const rows: RunRows = {
     count: rowCount,
-    rowStart: trimmed32(rowStart, rowCount),
-    rowEnd: trimmed32(rowEnd, rowCount),
-    cellOffset: trimmed32(cellOffset, rowCount + 1),
-    pipeCell: trimmed32(pipeCell, rowCount),
-    cellStart: trimmed32(cellStart, cellCount),
-    cellEnd: trimmed32(cellEnd, cellCount),
-    cellFlags: trimmed8(cellFlags, cellCount),
-    excluded,
+    rowStart: trimmed32(b.rowStart, rowCount),
+    rowEnd: trimmed32(b.rowEnd, rowCount),
+    cellOffset: trimmed32(b.cellOffset, rowCount + 1),
+    pipeCell: trimmed32(b.pipeCell, rowCount),
+    cellStart: trimmed32(b.cellStart, cellCount),
+    cellEnd: trimmed32(b.cellEnd, cellCount),
+    cellFlags: trimmed8(b.cellFlags, cellCount),
+    excluded: b.excluded,
   };
   return {
     end: bodyEnd,
     rows,
-    rowProblems: problems,
-    rowProblemRows: problemRows,
-    rowsWithoutPipe: rowCount - rowsWithPipe,
-    rowsWithPipe,
+    rowProblems: b.problems,
+    rowProblemRows: b.problemRows,
+    rowsWithoutPipe: rowCount - b.rowsWithPipe,
+    rowsWithPipe: b.rowsWithPipe,
   };
+}
+
+/**
+ * Reads an ordinary row starting at `p` (`p < end`, not a blank, line break or `#`): bare cells, blanks,
+ * at most one `|`, an optional comment. Records it and returns where it ends (a line break or `end`).
+ * Returns -1 and records nothing when the row holds anything else — a quote, a second `|`, a cell that
+ * may be `excluded` (eight characters starting with `e`) — or when the cell column is full: `readRow`
+ * then reads the row from its start. The flags of its cells stay `CellFlag.None`, the zero every new
+ * column starts with: not writing them spares a store per cell, and the memory pages of a column of
+ * unquoted cells are never touched.
+ */
+function readPlainRow(b: RowsBuilder, source: string, p: number, end: number): number {
+  const table = CLASS;
+  const cellStart = b.cellStart;
+  const cellEnd = b.cellEnd;
+  const cellCap = b.cellCap;
+  const row = b.rowCount;
+  const first = b.cellCount;
+  const rowFirst = p;
+  let cell = first;
+  let pipe = -1;
+  let lastContentEnd = p;
+  let kind = table[source.charCodeAt(p)]!;
+  for (;;) {
+    if (kind === 0) {
+      // A bare cell: up to a blank, a line break, `|`, `#` or a quote. The test for a possible `excluded`
+      // (eight characters, the first an `e`) reads the first character and compares on every cell, with
+      // no short-circuit: a call or comparison the engine has not seen run before it optimises this
+      // function would deoptimise it when first reached (the OR of two int32 values is 0 only when both
+      // are).
+      const s = p;
+      const head = source.charCodeAt(s);
+      kind = K_BREAK;
+      while (++p < end) {
+        const k = table[source.charCodeAt(p)]!;
+        if (k !== 0) {
+          kind = k;
+          break;
+        }
+      }
+      if (kind === K_QUOTE || cell === cellCap || ((p - s - 8) | (head - 101)) === 0) return -1;
+      cellStart[cell] = s;
+      cellEnd[cell] = p;
+      cell++;
+      lastContentEnd = p;
+    } else if (kind === K_BLANK) {
+      p++;
+      kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
+    } else if (kind === K_PIPE) {
+      if (pipe >= 0) return -1;
+      pipe = cell - first;
+      lastContentEnd = p + 1;
+      p++;
+      kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
+    } else if (kind === K_BREAK) {
+      break;
+    } else if (kind === K_HASH) {
+      p = skipToLineEnd(source, p, end);
+      break;
+    } else {
+      return -1;
+    }
+  }
+  b.rowStart[row] = rowFirst;
+  b.rowEnd[row] = lastContentEnd;
+  b.pipeCell[row] = pipe;
+  if (pipe >= 0) b.rowsWithPipe++;
+  b.cellCount = cell;
+  b.rowCount = row + 1;
+  b.cellOffset[row + 1] = cell;
+  return p;
+}
+
+/**
+ * Reads any row starting at `p` (`p < end`, not a blank, line break or `#`), with every problem in it,
+ * records it and returns where it ends (a line break or `end`). The general reader behind
+ * `readPlainRow`.
+ */
+function readRow(b: RowsBuilder, source: string, p: number, end: number): number {
+  const table = CLASS;
+  const problems = b.problems;
+  const problemRows = b.problemRows;
+  const row = b.rowCount;
+  const firstCell = b.cellCount;
+  let cellCount = firstCell;
+  let pipe = -1;
+  let lastContentEnd = p;
+  let mark: ExcludedMark | undefined;
+  let kind = table[source.charCodeAt(p)]!;
+  b.rowStart[row] = p;
+  for (;;) {
+    if (kind === K_BLANK) {
+      p++;
+      kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
+      continue;
+    }
+    if (kind === K_BREAK) break;
+    if (kind === K_HASH) {
+      p = skipToLineEnd(source, p, end);
+      break;
+    }
+    if (mark !== undefined) {
+      // Anything but a comment after `excluded "reason"`.
+      const stop = skipToCommentOrLineEnd(source, p, end);
+      problems.push(
+        problem(
+          "unexpected text after the excluded reason: 'excluded \"reason\"' must end the row (put notes in a # comment)",
+          p,
+          trimEnd(source, p, stop),
+        ),
+      );
+      problemRows.push(row);
+      lastContentEnd = trimEnd(source, p, stop);
+      p = stop;
+      kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
+      continue;
+    }
+    if (kind === K_PIPE) {
+      if (pipe < 0) {
+        pipe = cellCount - firstCell;
+      } else {
+        problems.push(problem("a second '|' in this row: a row has one '|' between factor and response columns", p, p + 1));
+        problemRows.push(row);
+      }
+      lastContentEnd = p + 1;
+      p++;
+      kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
+      continue;
+    }
+    if (cellCount === b.cellCap) {
+      b.cellCount = cellCount;
+      growCells(b);
+    }
+    if (kind === K_QUOTE) {
+      const qEnd = scanQuoted(source, p, end);
+      const terminated = lastQuotedTerminated;
+      b.cellStart[cellCount] = p;
+      b.cellEnd[cellCount] = qEnd;
+      b.cellFlags[cellCount] = terminated ? CellFlag.Quoted : CellFlag.Quoted | CellFlag.Unterminated;
+      cellCount++;
+      if (!terminated) {
+        problems.push(problem("unterminated quoted cell: add the closing '\"'", p, qEnd));
+        problemRows.push(row);
+      } else if (qEnd < end && !endsBareCell(source.charCodeAt(qEnd))) {
+        // `"a"b`: report the glued characters and go on reading them as another cell. A run of glued
+        // quoted cells (`""""…`) shares one end: start from the one already found, or a long run would
+        // be rescanned once per cell (quadratic).
+        let e = qEnd < b.glueEnd ? b.glueEnd : qEnd;
+        while (e < end && !endsBareCell(source.charCodeAt(e))) e++;
+        b.glueEnd = e;
+        problems.push(problem("put a space after the closing quote: cells are separated by spaces or tabs", qEnd, e));
+        problemRows.push(row);
+      }
+      lastContentEnd = qEnd;
+      p = qEnd;
+      kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
+      continue;
+    }
+    // An unquoted cell: up to a blank, a line break, `|` or `#` (a quote inside it is stray). Its first
+    // character is an ordinary one (every other class is handled above).
+    const s = p;
+    let strayQuote = -1;
+    kind = K_BREAK;
+    while (++p < end) {
+      const k = table[source.charCodeAt(p)]!;
+      if (k !== 0) {
+        if (k !== K_QUOTE) {
+          kind = k;
+          break;
+        }
+        if (strayQuote < 0) strayQuote = p;
+      }
+    }
+    if (strayQuote >= 0) {
+      problems.push(
+        problem(
+          `stray '"' in cell '${source.slice(s, p)}': quote the whole cell ("...") and write \\" for a quote inside it`,
+          strayQuote,
+          strayQuote + 1,
+        ),
+      );
+      problemRows.push(row);
+    }
+    if (p - s === 8 && isExcludedWord(source, s, p)) {
+      // `excluded "reason"`: the reason must follow, quoted.
+      let r = p;
+      while (r < end && isBlank(source.charCodeAt(r))) r++;
+      if (r < end && source.charCodeAt(r) === QUOTE) {
+        const qEnd = scanQuoted(source, r, end);
+        const terminated = lastQuotedTerminated;
+        if (!terminated) {
+          problems.push(problem("unterminated excluded reason: add the closing '\"'", r, qEnd));
+          problemRows.push(row);
+        }
+        const reason = { text: unquote(source.slice(r, qEnd), terminated), span: { start: r, end: qEnd } };
+        mark = { span: { start: s, end: qEnd }, reason };
+        p = qEnd;
+        kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
+      } else {
+        mark = { span: { start: s, end: p } };
+        problems.push(problem('excluded needs a reason in quotes: excluded "why the run does not count"', s, p));
+        problemRows.push(row);
+      }
+      b.excluded.set(row, mark);
+      lastContentEnd = mark.span.end;
+      continue;
+    }
+    b.cellStart[cellCount] = s;
+    b.cellEnd[cellCount] = p;
+    cellCount++;
+    lastContentEnd = p;
+  }
+  b.rowEnd[row] = lastContentEnd;
+  b.pipeCell[row] = pipe;
+  if (pipe >= 0) b.rowsWithPipe++;
+  b.cellCount = cellCount;
+  b.rowCount = row + 1;
+  b.cellOffset[row + 1] = cellCount;
+  return p;
 }
 
 /** True when some cell of row `r` is a quoted cell without its closing quote. */

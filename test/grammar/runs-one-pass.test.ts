@@ -256,6 +256,78 @@ describe("runs table read in one pass", () => {
   });
 });
 
+describe("ordinary rows and the general row reader", () => {
+  // The scanner reads an ordinary row (bare cells, blanks, one '|', a comment) with a small fast reader
+  // and hands any other row back to the general reader from its start. These tables mix both kinds in
+  // long runs, so the fast reader has been optimised by the engine when the other kinds arrive, and
+  // compare every row, cell, flag and problem with the former scanner (`reference-runs-scanner.ts`).
+
+  /** Scans the table of `text` and checks it against the former path, with and without a header '|'. */
+  function compareScan(text: string, start: number, limit?: number): void {
+    const scan = scanRunsTable(text, start, limit);
+    const referenceEnd = Math.min(referenceRunsBodyEnd(text, start), limit ?? text.length);
+    assert.equal(scan.end, referenceEnd);
+    for (const hasPipe of [true, false]) {
+      const ref = referenceScanRunsBody(text, start, scan.end, hasPipe);
+      assert.deepEqual(plainRows(scan.rows), plainRows(ref.rows));
+      assert.deepEqual(runsBodyProblems(scan, hasPipe), ref.problems);
+    }
+  }
+
+  it("reads eight-character cells starting with 'e', quotes, a second '|' and comments after many plain rows", () => {
+    const plain = (from: number, n: number) =>
+      Array.from({ length: n }, (_, i) => `  r${from + i} a${i % 4} b${i % 3} | ${(20 + (i % 7) / 4).toFixed(2)}\n`).join("");
+    const unusual = [
+      "  elephant a1 b2 | 1.5\n", // eight characters starting with 'e', not 'excluded'
+      "  e1234567 a1 b2 | 1.5\n",
+      "  excludes a1 b2 | 1.5\n",
+      '  r9 a1 b2 | 1.5 excluded "rain"\n',
+      "  r9 a1 b2 | 1.5 excluded\n",
+      '  r9 a1 b2 | excluded "rain" 7\n',
+      '  r9 "a 1" b2 | 1.5\n',
+      '  r9 a1 b"2 | 1.5\n',
+      "  r9 a1 | b2 | 1.5\n",
+      "  r9 a1 b2 | 1.5 # a note\n",
+      "  r9 a1 b2 1.5\n",
+      '  "open a1\n',
+      "  |\n",
+      "  r9\ta1\uFEFFb2|1.5#x\r\n",
+      "  r9 a1 b2 | 1.5",
+    ];
+    for (const row of unusual) {
+      const text = `runs id a b | y\n${plain(0, 3000)}${row}${row.endsWith("\n") ? plain(3000, 50) : ""}`;
+      compareScan(text, "runs id a b | y".length);
+    }
+  });
+
+  it("grows the cell columns inside a row the fast reader gives up", () => {
+    // Two cells a row in the first rows (the columns start at four a row), then rows of forty cells:
+    // the cell column fills in the middle of a row.
+    const few = Array.from({ length: 2000 }, (_, i) => `r${i} 1\n`).join("");
+    const many = Array.from({ length: 300 }, (_, i) => `r${i} ${"x ".repeat(38)}| 2\n`).join("");
+    compareScan(`runs id a | y\n${few}${many}${few}`, "runs id a | y".length);
+  });
+
+  it("agrees with the former scanner on random long tables cut at any point", () => {
+    const cell = fc.oneof(
+      { weight: 12, arbitrary: fc.constantFrom("r1", "a2", "17.5", "?", "elephant", "e1234567", "excludes") },
+      { weight: 1, arbitrary: fc.constantFrom('"q"', 'x"y', "|", "# note", 'excluded "why"', "excluded", '"a"b') },
+    );
+    const line = fc.array(cell, { minLength: 1, maxLength: 6 }).map((cells) => "  " + cells.join(" "));
+    const table = fc.tuple(fc.array(line, { minLength: 1, maxLength: 40 }), fc.nat({ max: 400 }), fc.double({ min: 0, max: 1, noNaN: true }));
+    fc.assert(
+      fc.property(table, ([lines, plainCount, cut]) => {
+        const plain = Array.from({ length: plainCount }, (_, i) => `  r${i} a1 b2 | 3.25\n`).join("");
+        const text = `runs id a b | y\n${plain}${lines.join("\n")}\n${plain}`;
+        const start = "runs id a b | y".length;
+        compareScan(text, start);
+        compareScan(text, start, start + Math.floor((text.length - start) * cut));
+      }),
+      { numRuns: 200, seed: 20261202 },
+    );
+  });
+});
+
 describe("keyword line test", () => {
   it("agrees with the former test on every keyword, its prefixes and extensions, and random lines", () => {
     const words: string[] = [];
