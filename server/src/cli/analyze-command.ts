@@ -1,4 +1,3 @@
-import { readFile } from "node:fs/promises";
 import { resolve } from "node:path";
 import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { SumsOfSquaresType } from "../analysis/design.js";
@@ -13,6 +12,7 @@ import { VERSION } from "../version.js";
 import { choice, parseArguments, probability } from "./arguments.js";
 import { locateDiagnostics } from "./check-command.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
+import { readTextFile } from "./read-text.js";
 
 export const ANALYZE_USAGE = `Usage: trialbook analyze FILE... [--format text|json] [--ss-type I|II|III] [--alpha A] [--confidence C]
   Prints the ANOVA table, R², residual SD and means of every response (JSON: one file at a time).
@@ -34,7 +34,7 @@ export async function analyzeCommand(args: readonly string[], io: CliIo): Promis
   const confidence = probability(values.confidence, "confidence");
   let exit = EXIT_OK;
   for (const path of positionals) {
-    const text = await readFile(resolve(io.cwd, path), "utf8").catch(() => {
+    const text = await readTextFile(resolve(io.cwd, path)).catch(() => {
       throw new UsageError(`Cannot read '${path}'.`);
     });
     const analysis = analyzeDocument(text, {}, { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) });

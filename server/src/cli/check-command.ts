@@ -1,4 +1,3 @@
-import { readFile } from "node:fs/promises";
 import { resolve } from "node:path";
 import type { Span } from "../../../grammar/src/ast.js";
 import { analyzeDocument } from "../analysis/analyze-document.js";
@@ -9,6 +8,7 @@ import { locateOffsets } from "./locate-offsets.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 import { type SarifDiagnostic, type SarifRegion, sarifLog } from "./sarif.js";
 import { createProgress, severityStyle, terminalStyle } from "./terminal-style.js";
+import { readTextFile } from "./read-text.js";
 
 export const CHECK_USAGE = `Usage: trialbook check [paths...] [--format text|json|sarif] [--max-warnings N]
   Checks .trial files. Directories are searched recursively (default: the current directory), skipping
@@ -76,7 +76,7 @@ export async function checkCommand(args: readonly string[], io: CliIo): Promise<
   for (const file of files) {
     let text: string;
     try {
-      text = await readFile(resolve(io.cwd, file), "utf8");
+      text = await readTextFile(resolve(io.cwd, file));
     } catch {
       throw new UsageError(`Cannot read '${file}'.`);
     }

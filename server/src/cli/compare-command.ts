@@ -1,4 +1,3 @@
-import { readFile } from "node:fs/promises";
 import { resolve } from "node:path";
 import { analyzeDocument } from "../analysis/analyze-document.js";
 import { compareAnalyses } from "../analysis/compare-analyses.js";
@@ -7,6 +6,7 @@ import { comparisonMarkdown, comparisonText, type ComparisonLabels } from "./com
 import { readFileAtRevision } from "./git-show.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 import { createProgress, terminalStyle } from "./terminal-style.js";
+import { readTextFile } from "./read-text.js";
 
 export const COMPARE_USAGE = `Usage: trialbook compare OLD.trial NEW.trial [--format text|md]
        trialbook compare FILE.trial --rev REV [--format text|md]
@@ -56,7 +56,7 @@ export async function compareCommand(args: readonly string[], io: CliIo): Promis
 
 async function readText(io: CliIo, path: string): Promise<string> {
   try {
-    return await readFile(resolve(io.cwd, path), "utf8");
+    return await readTextFile(resolve(io.cwd, path));
   } catch {
     throw new UsageError(`Cannot read '${path}'.`);
   }

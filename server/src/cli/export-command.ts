@@ -1,10 +1,11 @@
-import { readFile, writeFile } from "node:fs/promises";
+import { writeFile } from "node:fs/promises";
 import { resolve } from "node:path";
 import { parseTrial } from "../../../grammar/src/parse.js";
 import { runsToCsv } from "../export/runs-to-csv.js";
 import { choice, parseArguments } from "./arguments.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 import { createProgress } from "./terminal-style.js";
+import { readTextFile } from "./read-text.js";
 
 export const EXPORT_USAGE = `Usage: trialbook export FILE.trial --format csv [-o OUT.csv] [--pending TEXT]
   Writes the runs table as CSV (RFC 4180; stdout without -o), the inverse of 'trialbook import': columns
@@ -27,7 +28,7 @@ export async function exportCommand(args: readonly string[], io: CliIo): Promise
   const path = positionals[0]!;
   let text: string;
   try {
-    text = await readFile(resolve(io.cwd, path), "utf8");
+    text = await readTextFile(resolve(io.cwd, path));
   } catch {
     throw new UsageError(`Cannot read '${path}'.`);
   }

@@ -1,8 +1,9 @@
-import { readFile, writeFile } from "node:fs/promises";
+import { writeFile } from "node:fs/promises";
 import { basename, resolve } from "node:path";
 import { csvToTrial } from "../import/csv-to-trial.js";
 import { parseArguments } from "./arguments.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
+import { readTextFile } from "./read-text.js";
 
 export const IMPORT_USAGE = `Usage: trialbook import <data.csv|-> --factor COL... --response COL... [--id COL] [--block COL...]
                         [--random COL...] [--subject COL...] [--covariate COL...] [--title TEXT] [-o FILE]
@@ -28,7 +29,7 @@ export async function importCommand(args: readonly string[], io: CliIo): Promise
   const responses = (values.response as string[] | undefined) ?? [];
   if (responses.length === 0) throw new UsageError("import needs at least one --response column.");
   const input = positionals[0]!;
-  const csvText = input === "-" ? await io.readStdin() : await readFile(resolve(io.cwd, input), "utf8").catch(() => {
+  const csvText = input === "-" ? await io.readStdin() : await readTextFile(resolve(io.cwd, input)).catch(() => {
     throw new UsageError(`Cannot read '${input}'.`);
   });
 

@@ -1,0 +1,115 @@
+/**
+ * The CLI's file reader gives the very string Node's own `readFile(path, "utf8")` gives (the reference
+ * named in each check): on ASCII text, on UTF-8 with a byte-order mark and characters outside ASCII, on
+ * bytes that are not valid UTF-8, on an empty file, and on files larger than the chunk size of Node's
+ * promise-based reader. The fallback ASCII test agrees with Node's `buffer.isAscii`.
+ */
+import assert from "node:assert/strict";
+import * as nodeBuffer from "node:buffer";
+import fs from "node:fs";
+import { readFile } from "node:fs/promises";
+import os from "node:os";
+import path from "node:path";
+import fc from "fast-check";
+import { decodeText, isAscii, isAsciiBytes, readTextFile, readTextFileSync } from "../../server/src/cli/read-text.js";
+
+const nativeIsAscii = (nodeBuffer as unknown as { isAscii?: (input: Uint8Array) => boolean }).isAscii;
+
+describe("readTextFile", () => {
+  let dir: string;
+  before(() => {
+    dir = fs.mkdtempSync(path.join(os.tmpdir(), "trialbook-read-text-"));
+  });
+  after(() => {
+    fs.rmSync(dir, { recursive: true, force: true });
+  });
+
+  /** Writes `bytes` to a file and checks both readers against `readFile(path, "utf8")`. */
+  async function agrees(name: string, bytes: Uint8Array): Promise<string> {
+    const file = path.join(dir, name);
+    fs.writeFileSync(file, bytes);
+    const reference = await readFile(file, "utf8");
+    const text = await readTextFile(file);
+    assert.equal(text, reference);
+    assert.equal(readTextFileSync(file), reference);
+    return text;
+  }
+
+  it("reads an ASCII file as Node's UTF-8 reader does", async () => {
+    const source = 'trial "Invented adhesive cure"\nruns id a | y\r\n  r1 a1 | 1.5\t# note\n';
+    const text = await agrees("ascii.trial", Buffer.from(source, "utf8"));
+    assert.equal(text, source);
+    assert.equal(isAscii(Buffer.from(source, "utf8")), true);
+  });
+
+  it("keeps a byte-order mark and decodes characters outside ASCII", async () => {
+    const source = '\uFEFFtrial "Invented coating bath: 25 \u00B0C, \u00E9tuve, \u65E5\u672C, \u{1F9EA}"\nruns id a\n  r1 \u00E9\n';
+    const text = await agrees("utf8-bom.trial", Buffer.from(source, "utf8"));
+    assert.equal(text, source);
+    assert.equal(text.charCodeAt(0), 0xfeff);
+    assert.equal(isAscii(Buffer.from(source, "utf8")), false);
+  });
+
+  it("replaces invalid UTF-8 bytes as Node's reader does", async () => {
+    // A lone continuation byte, a truncated two-byte sequence, a byte that never occurs in UTF-8, and a
+    // Latin-1 'é' written as one byte: each must become U+FFFD, not the Latin-1 character.
+    const bytes = Buffer.from([0x61, 0x80, 0x62, 0xc3, 0x63, 0xff, 0x64, 0xe9, 0x0a]);
+    const text = await agrees("invalid.trial", bytes);
+    assert.equal(text, "a\uFFFDb\uFFFDc\uFFFDd\uFFFD\n");
+  });
+
+  it("reads an empty file as the empty string", async () => {
+    assert.equal(await agrees("empty.trial", new Uint8Array(0)), "");
+  });
+
+  it("reads files larger than the reader's chunks, ASCII and not", async () => {
+    // 3 MB: larger than the 512 KiB chunks of Node's promise-based reader and than the size at which
+    // Node keeps a Latin-1 string outside the engine's heap.
+    const line = "  r123456 a4 b2 | 21.74\n";
+    const ascii = line.repeat(Math.ceil(3e6 / line.length));
+    await agrees("large-ascii.trial", Buffer.from(ascii, "utf8"));
+    // The one non-ASCII character is at the very end: the ASCII test must read every byte.
+    const mixed = ascii + "# \u00E9\n";
+    await agrees("large-mixed.trial", Buffer.from(mixed, "utf8"));
+  });
+
+  it("rejects a missing file as readFile does", async () => {
+    const missing = path.join(dir, "missing.trial");
+    await assert.rejects(readTextFile(missing), { code: "ENOENT" });
+    assert.throws(() => readTextFileSync(missing), { code: "ENOENT" });
+  });
+});
+
+describe("isAsciiBytes", () => {
+  it("agrees with Node's buffer.isAscii on random bytes and a high byte at every position of a block", () => {
+    assert.equal(typeof nativeIsAscii, "function", "Node 20 has buffer.isAscii");
+    const check = nativeIsAscii!;
+    fc.assert(
+      fc.property(fc.uint8Array({ maxLength: 9000 }), fc.boolean(), (raw, clear) => {
+        // Half of the cases with the high bits cleared, so that both answers occur.
+        const bytes = clear ? raw.map((b) => b & 0x7f) : raw;
+        assert.equal(isAsciiBytes(bytes), check(bytes));
+      }),
+      { numRuns: 300, seed: 20261202 },
+    );
+    const block = new Uint8Array(8200).fill(0x41);
+    assert.equal(isAsciiBytes(block), true);
+    for (const at of [0, 1, 4095, 4096, 4097, 8199]) {
+      block[at] = 0x80;
+      assert.equal(isAsciiBytes(block), false, `high byte at ${at}`);
+      assert.equal(check(block), false);
+      block[at] = 0x41;
+    }
+    assert.equal(isAsciiBytes(new Uint8Array(0)), true);
+  });
+
+  it("decodeText gives Buffer.toString('utf8') on random bytes", () => {
+    fc.assert(
+      fc.property(fc.uint8Array({ maxLength: 300 }), (raw) => {
+        const bytes = Buffer.from(raw);
+        assert.equal(decodeText(bytes), bytes.toString("utf8"));
+      }),
+      { numRuns: 300, seed: 20261202 },
+    );
+  });
+});
