@@ -22,8 +22,10 @@ export interface ResponseContext {
   readonly design: Design;
   readonly responseIndex: number;
   readonly anchors: AnalysisAnchors;
-  /** Run (row) indices of the observations in the fit, in run order. */
+  /** Run (row) indices of the observations in the fit, in run order (made from `rows` on first read). */
   readonly runs: readonly number[];
+  /** The same run indices as a typed array (no plain array of a million numbers is made to read it). */
+  readonly rows: Int32Array;
   /** Centred response values of those runs (add `offset` for the response scale). */
   readonly y: Float64Array;
   readonly offset: number;
@@ -70,7 +72,8 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   };
   let used = 0;
   for (let r = 0; r < count; r++) if (usable(r)) used++;
-  const selected: number[] = new Array<number>(used).fill(0);
+  // Typed (4 bytes a run, no fill): the plain array of the context's `runs` is made on first read only.
+  const selected = new Int32Array(used);
   const declaredCodes = allFactors.map(() => new Int32Array(used));
   if (allFactors.length === 2) {
     // The common two-factor design with its arrays in locals.
@@ -232,11 +235,16 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
       adjustedMeans: adjustedMeans(design, fit, usedFactors, compact, offset),
       slopeHomogeneity: fit.slopeHomogeneity.map((s) => ({ term: s.factor, covariate: s.covariate, df1: s.df1, df2: s.df2, f: s.f, p: s.p })),
   };
+  let runList: number[] | undefined;
   const context: ResponseContext = {
     design,
     responseIndex,
     anchors,
-    runs: selected,
+    get runs(): readonly number[] {
+      runList ??= Array.from(selected);
+      return runList;
+    },
+    rows: selected,
     y: centred.values,
     offset,
     levelsOf: (factor) => compact.get(factor),
@@ -249,7 +257,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
 }
 
 /** The per-run residual rows of the JSON contract, in run order. */
-function runResiduals(selected: readonly number[], runs: DesignRuns, fit: LinearModelResult, offset: number): RunResidual[] {
+function runResiduals(selected: Int32Array, runs: DesignRuns, fit: LinearModelResult, offset: number): RunResidual[] {
   const out = new Array<RunResidual>(selected.length);
   for (let i = 0; i < selected.length; i++) {
     const r = selected[i]!;

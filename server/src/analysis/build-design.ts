@@ -585,8 +585,7 @@ function readRuns(
   const source = file.source;
   const rows = table.rows;
   const { cellOffset, pipeCell, cellStart, cellEnd } = rows;
-  const levelIndex = factors.map((f) => new Map(f.levels.map((l, i) => [l.name, i] as const)));
-  const levelNames = factors.map((f) => f.levels.map((l) => l.name));
+  const lookups = factors.map((f) => levelLookup(f.levels.map((l) => l.name)));
   const leftCount = table.responseStart;
   const rightCount = table.columns.length - table.responseStart;
   const columnCount = table.columns.length;
@@ -629,44 +628,61 @@ function readRuns(
   // Whether every row is regular and every cell read cleanly: then no row needs the second reading, and
   // the loop over all rows below is skipped (the usual large run sheet).
   let allClean = !anyExcluded && (duplicates === undefined || duplicates.rows.length === 0);
+  // The factor and value columns, in header order, as parallel arrays: one pass over the rows reads every
+  // column of a regular row (its cell offsets and split read once per row, not once per column).
+  const factorColumns: number[] = [];
+  const factorOut: Int32Array[] = [];
+  const factorLookup: LevelLookup[] = [];
+  const valueColumns: number[] = [];
+  const valueStatusOut: Uint8Array[] = [];
+  const valueCells: Int32Array[] = [];
+  const valueStore: DecimalColumn[] = [];
+  const valueIsResponse: boolean[] = [];
   for (let column = 0; column < columnCount; column++) {
     const kind = roleKind[column];
     const index = roleIndex[column]!;
     if (kind === Role.Factor) {
-      const out = levels[index]!;
-      const names = levelNames[index]!;
-      const byName = levelIndex[index]!;
-      checkedLevels.push(out);
-      for (let r = 0; r < count; r++) {
-        const first = cellOffset[r]!;
-        const pipe = pipeCell[r]!;
-        if (cellOffset[r + 1]! - first !== columnCount || (pipe >= 0 && headerHasPipe && pipe !== leftCount)) {
-          allClean = false;
-          continue;
-        }
-        const level = findLevel(source, rows, first + column, names, byName);
-        if (level < 0) allClean = false;
-        out[r] = level;
-      }
+      factorColumns.push(column);
+      factorOut.push(levels[index]!);
+      factorLookup.push(lookups[index]!);
+      checkedLevels.push(levels[index]!);
     } else if (kind === Role.Response || kind === Role.Covariate) {
       const response = kind === Role.Response;
-      const status = response ? responseStatus[index]! : covariateStatus[index]!;
-      const cells = response ? responseCells[index]! : covariateCells[index]!;
-      const values = response ? responseValues[index]! : covariateValues[index]!;
-      checkedStatus.push(status);
-      for (let r = 0; r < count; r++) {
-        const first = cellOffset[r]!;
-        const pipe = pipeCell[r]!;
-        if (cellOffset[r + 1]! - first !== columnCount || (pipe >= 0 && headerHasPipe && pipe !== leftCount)) {
-          allClean = false;
-          continue;
-        }
-        const cell = first + column;
-        const read = readValue(source, rows, cell, values, r);
+      valueColumns.push(column);
+      valueStatusOut.push(response ? responseStatus[index]! : covariateStatus[index]!);
+      valueCells.push(response ? responseCells[index]! : covariateCells[index]!);
+      valueStore.push(response ? responseValues[index]! : covariateValues[index]!);
+      valueIsResponse.push(response);
+      checkedStatus.push(response ? responseStatus[index]! : covariateStatus[index]!);
+    }
+  }
+  const { cellFlags } = rows;
+  const factorCount = factorColumns.length;
+  const valueCount = valueColumns.length;
+  for (let r = 0; r < count; r++) {
+    const first = cellOffset[r]!;
+    const pipe = pipeCell[r]!;
+    if (cellOffset[r + 1]! - first !== columnCount || (pipe >= 0 && headerHasPipe && pipe !== leftCount)) {
+      allClean = false;
+      continue;
+    }
+    for (let q = 0; q < factorCount; q++) {
+      const level = findLevel(source, rows, first + factorColumns[q]!, factorLookup[q]!);
+      if (level < 0) allClean = false;
+      factorOut[q]![r] = level;
+    }
+    for (let q = 0; q < valueCount; q++) {
+      const cell = first + valueColumns[q]!;
+      // The usual measured value ("21.74") is decomposed and stored in one pass over its characters;
+      // anything else is read in full (readValue).
+      let status: ValueStatus = ValueStatus.Measured;
+      if (cellFlags[cell] !== 0 || !storePlainDecimal(source, cellStart[cell]!, cellEnd[cell]!, valueStore[q]!, r)) {
+        const read = readValue(source, rows, cell, valueStore[q]!, r);
         if (read !== CellValue.Measured) allClean = false;
-        status[r] = read === CellValue.Measured ? ValueStatus.Measured : read === CellValue.Pending && response ? ValueStatus.Pending : ValueStatus.Invalid;
-        cells[r] = cell;
+        status = read === CellValue.Measured ? ValueStatus.Measured : read === CellValue.Pending && valueIsResponse[q]! ? ValueStatus.Pending : ValueStatus.Invalid;
       }
+      valueStatusOut[q]![r] = status;
+      valueCells[q]![r] = cell;
     }
   }
   // A table whose header has no factor or value column reads no row above: its rows are then checked
@@ -729,7 +745,7 @@ function readRuns(
         }
         case Role.Factor: {
           const index = roleIndex[column]!;
-          const idx = findLevel(source, rows, cell, levelNames[index]!, levelIndex[index]!);
+          const idx = findLevel(source, rows, cell, lookups[index]!);
           if (idx < 0) {
             const text = cellText(source, rows, cell);
             const f = factors[index]!;
@@ -765,18 +781,59 @@ function readRuns(
 /** Largest number of levels looked up by comparing characters in place (beyond it, a map of names). */
 const SCAN_LEVELS = 16;
 
+/** Longest level name found through `LevelLookup.byEnd` (the table has a row per length below it). */
+const SHORT_NAME = 16;
+
+/**
+ * A factor's level names prepared for lookups of cells in place: by name (quoted cells, many levels), and
+ * for short ASCII-ending names by (length, last code unit), which most level sets (a1, a2 ...; low, high)
+ * tell apart, so that a cell is compared with one candidate only.
+ */
+interface LevelLookup {
+  readonly names: readonly string[];
+  readonly index: ReadonlyMap<string, number>;
+  /** Entry length * 128 + last code unit: the only level with that length and ending, -1 for none, -2 for several. */
+  readonly byEnd: Int16Array;
+}
+
+function levelLookup(names: readonly string[]): LevelLookup {
+  const byEnd = new Int16Array(SHORT_NAME * 128).fill(-1);
+  names.forEach((name, i) => {
+    const length = name.length;
+    if (length === 0 || length >= SHORT_NAME) return;
+    const last = name.charCodeAt(length - 1);
+    if (last >= 128) return;
+    const at = length * 128 + last;
+    byEnd[at] = byEnd[at] === -1 ? i : -2;
+  });
+  // A name that is long or ends beyond ASCII is never found through the table: such cells take the loop.
+  return { names, index: new Map(names.map((n, i) => [n, i] as const)), byEnd };
+}
+
 /**
  * The level index of a factor cell, or -1. An unquoted cell is compared in place with each level name
  * (no substring per cell); a quoted cell, or a factor with many levels, is looked up by its text.
  */
-function findLevel(source: string, rows: RunRows, cell: number, names: readonly string[], index: ReadonlyMap<string, number>): number {
+function findLevel(source: string, rows: RunRows, cell: number, lookup: LevelLookup): number {
+  const names = lookup.names;
   if (rows.cellFlags[cell] === 0 && names.length <= SCAN_LEVELS) {
     const start = rows.cellStart[cell]!;
     const length = rows.cellEnd[cell]! - start;
+    const last = length > 0 ? source.charCodeAt(start + length - 1) : -1;
+    if (length > 0 && length < SHORT_NAME && last < 128) {
+      // The one level with this length and last code unit, if any, is compared; none means no level
+      // matches (every short ASCII-ending name is in the table).
+      const hit = lookup.byEnd[length * 128 + last]!;
+      if (hit === -1) return -1;
+      if (hit >= 0) {
+        const name = names[hit]!;
+        for (let j = 0; j < length - 1; j++) if (name.charCodeAt(j) !== source.charCodeAt(start + j)) return -1;
+        return hit;
+      }
+    }
     // Compared code unit by code unit (`startsWith` with a position is a runtime call, several times
     // slower per cell on a large source), last unit first: level names often share a prefix ("a1", "a2";
     // "ramp-fast", "ramp-slow") and differ at the end, so most mismatches cost one comparison.
-    const last = length > 0 ? source.charCodeAt(start + length - 1) : -1;
     levels: for (let i = 0; i < names.length; i++) {
       const name = names[i]!;
       if (name.length !== length || (length > 0 && name.charCodeAt(length - 1) !== last)) continue;
@@ -785,7 +842,7 @@ function findLevel(source: string, rows: RunRows, cell: number, names: readonly 
     }
     return -1;
   }
-  return index.get(cellText(source, rows, cell)) ?? -1;
+  return lookup.index.get(cellText(source, rows, cell)) ?? -1;
 }
 
 function mapColumns(

@@ -109,12 +109,14 @@ export function duplicateRunIds(source: string, rows: RunRows, idCells: Int32Arr
  */
 function increasingNumberedIds(source: string, rows: RunRows, idCells: Int32Array): boolean {
   let previous = -1;
+  // The cell arrays in locals, so the loop reads typed arrays only.
+  const { cellFlags, cellStart, cellEnd } = rows;
   for (let r = 0; r < idCells.length; r++) {
     const cell = idCells[r]!;
     if (cell < 0) continue;
-    if (rows.cellFlags[cell] !== 0) return false;
-    const start = rows.cellStart[cell]!;
-    let i = rows.cellEnd[cell]!;
+    if (cellFlags[cell] !== 0) return false;
+    const start = cellStart[cell]!;
+    let i = cellEnd[cell]!;
     let value = 0;
     let place = 1;
     let digits = 0;

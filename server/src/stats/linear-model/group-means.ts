@@ -68,7 +68,7 @@ export function groupMeansOfGroupings(y: Float64Array, groupings: readonly Group
   const corrections = new Float64Array(total);
   const squares = new Float64Array(total);
   const n = y.length;
-  if (groupings.every((g) => g.codes.length >= n && (g.within === undefined || g.within.codes.length >= n))) {
+  if (k <= 3 && groupings.every((g) => g.codes.length >= n && (g.within === undefined || g.within.codes.length >= n))) {
     accumulateTogether(y, groupings, offsets, counts, means, corrections, squares);
   } else {
     for (let q = 0; q < k; q++) {
@@ -104,10 +104,12 @@ export function groupMeansOfGroupings(y: Float64Array, groupings: readonly Group
 }
 
 /**
- * The two passes of every grouping at once (each grouping's codes at least as long as y): one pass reads
- * each value once for all groupings, so a million observations cost two passes instead of two per
+ * The two passes of up to three groupings at once (each grouping's codes at least as long as y): one pass
+ * reads each value once for all of them, so a million observations cost two passes instead of two per
  * grouping. Each group still sums its values in observation order, so the results are bit for bit those
- * of `accumulateGroups` and `accumulateCells` one grouping at a time.
+ * of `accumulateGroups` and `accumulateCells` one grouping at a time. The groupings are held in locals
+ * (an absent one has no groups, so every observation skips it): a loop over an array of groupings per
+ * observation costs more than the passes it saves.
  */
 function accumulateTogether(
   y: Float64Array,
@@ -118,35 +120,78 @@ function accumulateTogether(
   corrections: Float64Array,
   squares: Float64Array,
 ): void {
-  const k = groupings.length;
   const n = y.length;
-  const first = groupings.map((g) => g.codes);
-  const second = groupings.map((g) => g.within?.codes ?? first[0]!);
-  const radix = Int32Array.from(groupings, (g) => (g.within ? g.within.levelCount : -1));
-  const size = Int32Array.from(groupings, (g) => Math.max(0, g.groupCount));
-  const sums = new Float64Array(offsets[k]!);
+  const none = new Int32Array(0);
+  const part = (q: number) => {
+    const g = groupings[q];
+    return {
+      first: g ? g.codes : none,
+      second: g?.within ? g.within.codes : g ? g.codes : none,
+      radix: g?.within ? g.within.levelCount : 0,
+      size: g ? Math.max(0, g.groupCount) : 0,
+      within: g?.within !== undefined,
+      offset: g ? offsets[q]! : 0,
+    };
+  };
+  const p0 = part(0);
+  const p1 = part(1);
+  const p2 = part(2);
+  const f0 = p0.first, s0 = p0.second, r0 = p0.within ? p0.radix : 0, m0 = p0.within ? 1 : 0, z0 = p0.size, o0 = p0.offset;
+  const f1 = p1.first, s1 = p1.second, r1 = p1.within ? p1.radix : 0, m1 = p1.within ? 1 : 0, z1 = p1.size, o1 = p1.offset;
+  const f2 = p2.first, s2 = p2.second, r2 = p2.within ? p2.radix : 0, m2 = p2.within ? 1 : 0, z2 = p2.size, o2 = p2.offset;
+  const sums = new Float64Array(offsets[groupings.length]!);
+  // Group of observation i in a grouping: first * radix + second for cells of two factors (m = 1), else
+  // first (m = 0; first + 0 * second). Absent groupings have size 0 and are skipped before any read.
   for (let i = 0; i < n; i++) {
     const v = y[i]!;
-    for (let q = 0; q < k; q++) {
-      const r = radix[q]!;
-      const g = r < 0 ? first[q]![i]! : first[q]![i]! * r + second[q]![i]!;
-      if (g < 0 || g >= size[q]!) continue;
-      const at = offsets[q]! + g;
-      counts[at]!++;
-      sums[at]! += v;
+    if (z0 > 0) {
+      const g = m0 === 1 ? f0[i]! * r0 + s0[i]! : f0[i]!;
+      if (g >= 0 && g < z0) {
+        counts[o0 + g]!++;
+        sums[o0 + g]! += v;
+      }
+    }
+    if (z1 > 0) {
+      const g = m1 === 1 ? f1[i]! * r1 + s1[i]! : f1[i]!;
+      if (g >= 0 && g < z1) {
+        counts[o1 + g]!++;
+        sums[o1 + g]! += v;
+      }
+    }
+    if (z2 > 0) {
+      const g = m2 === 1 ? f2[i]! * r2 + s2[i]! : f2[i]!;
+      if (g >= 0 && g < z2) {
+        counts[o2 + g]!++;
+        sums[o2 + g]! += v;
+      }
     }
   }
   for (let at = 0; at < sums.length; at++) means[at] = counts[at]! > 0 ? sums[at]! / counts[at]! : 0;
   for (let i = 0; i < n; i++) {
     const v = y[i]!;
-    for (let q = 0; q < k; q++) {
-      const r = radix[q]!;
-      const g = r < 0 ? first[q]![i]! : first[q]![i]! * r + second[q]![i]!;
-      if (g < 0 || g >= size[q]!) continue;
-      const at = offsets[q]! + g;
-      const d = v - means[at]!;
-      corrections[at]! += d;
-      squares[at]! += d * d;
+    if (z0 > 0) {
+      const g = m0 === 1 ? f0[i]! * r0 + s0[i]! : f0[i]!;
+      if (g >= 0 && g < z0) {
+        const d = v - means[o0 + g]!;
+        corrections[o0 + g]! += d;
+        squares[o0 + g]! += d * d;
+      }
+    }
+    if (z1 > 0) {
+      const g = m1 === 1 ? f1[i]! * r1 + s1[i]! : f1[i]!;
+      if (g >= 0 && g < z1) {
+        const d = v - means[o1 + g]!;
+        corrections[o1 + g]! += d;
+        squares[o1 + g]! += d * d;
+      }
+    }
+    if (z2 > 0) {
+      const g = m2 === 1 ? f2[i]! * r2 + s2[i]! : f2[i]!;
+      if (g >= 0 && g < z2) {
+        const d = v - means[o2 + g]!;
+        corrections[o2 + g]! += d;
+        squares[o2 + g]! += d * d;
+      }
     }
   }
 }
