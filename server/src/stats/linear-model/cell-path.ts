@@ -119,6 +119,112 @@ export function cellLayoutWithStatistics(input: LinearModelInput): CellsOfInput 
   return { layout, statistics };
 }
 
+/** `CellsOfInput` found together with the input checks and the response's mean (see `scanCells`). */
+export interface ScannedCells extends CellsOfInput {
+  /** Whether every response value equals the first. */
+  readonly allEqual: boolean;
+  /** The response's mean, bit for bit `mean(y)` of design-matrix.ts. */
+  readonly mean: number;
+}
+
+/**
+ * For a model of one or two factors, both used by its terms, and no covariate (the usual designed
+ * experiment): checks every response value is finite and every level code in range, finds the cells and
+ * their statistics (as `cellLayoutWithStatistics`) and the response's compensated mean (as `mean`), all
+ * in the two passes the cell statistics need instead of six. Returns null, having changed nothing, when
+ * the model has another shape, a value or code is out of bounds (the caller validates in full), or the
+ * cell path does not apply. The caller has checked the lengths, level counts and terms.
+ */
+export function scanCells(input: LinearModelInput): ScannedCells | null {
+  const y = input.y;
+  const n = y.length;
+  const factorCount = input.factors.length;
+  if (n < 2 || input.covariates.length > 0 || factorCount < 1 || factorCount > 2) return null;
+  if (input.terms.some((t) => t.covariates.length > 0)) return null;
+  const used = new Set(input.terms.flatMap((t) => t.factors));
+  if (used.size !== factorCount) return null;
+  const a = input.factors[0]!.codes;
+  const la = input.factors[0]!.levelCount;
+  const b = factorCount > 1 ? input.factors[1]!.codes : a;
+  const lb = factorCount > 1 ? input.factors[1]!.levelCount : 1;
+  const two = factorCount > 1;
+  const keySpace = la * lb;
+  if (!(keySpace <= DENSE_KEYS) || a.length !== n || b.length !== n) return null;
+  const cellOfRun = new Int32Array(n);
+  const dense = new Int32Array(keySpace).fill(-1);
+  const room = Math.min(keySpace, n);
+  const firstRun = new Int32Array(room);
+  const counts = new Float64Array(room);
+  const sums = new Float64Array(room);
+  const compensation = new Float64Array(room);
+  let cellCount = 0;
+  const first = y[0]!;
+  let equal = true;
+  // Neumaier's sum of all values (the first pass of `mean`).
+  let total = 0;
+  let totalCompensation = 0;
+  for (let i = 0; i < n; i++) {
+    const v = y[i]!;
+    const ca = a[i]!;
+    const cb = two ? b[i]! : 0;
+    // v - v is 0 for a finite value and NaN for NaN or an infinity.
+    if (v - v !== 0 || ca < 0 || ca >= la || cb < 0 || cb >= lb) return null;
+    if (v !== first) equal = false;
+    const sum = total + v;
+    totalCompensation += Math.abs(total) >= Math.abs(v) ? total - sum + v : v - sum + total;
+    total = sum;
+    const key = ca * lb + cb;
+    let c = dense[key]!;
+    if (c < 0) {
+      if (cellCount + 1 >= n) return null;
+      c = cellCount++;
+      firstRun[c] = i;
+      dense[key] = c;
+    }
+    cellOfRun[i] = c;
+    // First pass of cellStatistics (Neumaier 1974), the same operations in the same order per cell.
+    const s = sums[c]!;
+    const t = s + v;
+    compensation[c]! += Math.abs(s) >= Math.abs(v) ? s - t + v : v - t + s;
+    sums[c] = t;
+    counts[c]!++;
+  }
+  const roughMean = (total + totalCompensation) / n;
+  // Second passes of cellStatistics and of `mean`, together.
+  const means = new Float64Array(cellCount);
+  for (let c = 0; c < cellCount; c++) means[c] = (sums[c]! + compensation[c]!) / counts[c]!;
+  const deviation = new Float64Array(cellCount);
+  const squares = new Float64Array(cellCount);
+  let correction = 0;
+  let correctionCompensation = 0;
+  for (let i = 0; i < n; i++) {
+    const v = y[i]!;
+    const c = cellOfRun[i]!;
+    const d = v - means[c]!;
+    deviation[c]! += d;
+    squares[c]! += d * d;
+    const e = v - roughMean;
+    const sum = correction + e;
+    correctionCompensation += Math.abs(correction) >= Math.abs(e) ? correction - sum + e : e - sum + correction;
+    correction = sum;
+  }
+  const within = new NeumaierSum();
+  const cellCounts = counts.slice(0, cellCount);
+  for (let c = 0; c < cellCount; c++) {
+    const d = deviation[c]!;
+    means[c]! += d / cellCounts[c]!;
+    within.add(Math.max(0, squares[c]! - (d * d) / cellCounts[c]!));
+  }
+  const usedList = two ? [0, 1] : [0];
+  const layout = { cellOfRun, cellCount, cellCodes: cellCodesOf(input, usedList, firstRun, cellCount) };
+  return {
+    layout,
+    statistics: { counts: cellCounts, means, withinSs: within.value() },
+    allEqual: equal,
+    mean: roughMean + (correction + correctionCompensation) / n,
+  };
+}
+
 /** The layout through a map of keys, for key spaces too large for a dense index. */
 function sparseCellLayout(input: LinearModelInput, used: readonly number[], codes: readonly Int32Array[], radix: readonly number[]): CellLayout | null {
   const n = input.y.length;

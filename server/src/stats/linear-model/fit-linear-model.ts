@@ -21,7 +21,7 @@
 import { fUpperTail } from "../distributions/f-distribution.js";
 import { balancedLayout, balancedLayoutFromCells, balancedModelCore } from "./balanced-fast-path.js";
 import { caseStatisticValues, nullWhereNaN } from "./case-statistics.js";
-import { cellLayoutWithStatistics, cellModelCore } from "./cell-path.js";
+import { cellLayoutWithStatistics, cellModelCore, scanCells } from "./cell-path.js";
 import { mean } from "./design-matrix.js";
 import { termEffectSize } from "./effect-sizes.js";
 import { termSource, type ModelCore } from "./model-core.js";
@@ -32,6 +32,17 @@ import { validateModelInput, validateModelTerms } from "./validate-input.js";
 
 /** Fits the model of `input` and returns its ANOVA table and diagnostics, or a failure with a reason. Never throws on bad input. */
 export function fitLinearModel(input: LinearModelInput): LinearModelResult | ModelFailure {
+  // The usual designed experiment (one or two factors, no covariate): the checks, the cells, their
+  // statistics and the response's mean come out of two passes over the observations (scanCells).
+  const scanned = wellShaped(input) ? scanCells(input) : null;
+  if (scanned) {
+    if (scanned.allEqual) {
+      return { ok: false, code: "zero-variance", reason: `All ${input.y.length} observations have the same value; there is no variation to analyse.` };
+    }
+    const balanced = balancedLayoutFromCells(input, scanned.layout, scanned.statistics.counts);
+    const core = balanced ? balancedModelCore(input, balanced) : cellModelCore(input, scanned);
+    if (core) return assembleResult(input, core, scanned.mean);
+  }
   // One fused pass answers "well formed?" and "all equal?" for the usual input; only input it flags is
   // validated again value by value, for the same first problem and sentence as before.
   const scan = quickScan(input);
@@ -57,7 +68,7 @@ export function fitLinearModel(input: LinearModelInput): LinearModelResult | Mod
 }
 
 /** Turns a computation path's core into the public result (F, p, effect sizes, scaled standard errors). */
-export function assembleResult(input: LinearModelInput, core: ModelCore): LinearModelResult {
+export function assembleResult(input: LinearModelInput, core: ModelCore, centreOfY?: number): LinearModelResult {
   const { y } = input;
   const n = y.length;
   const notes: ModelNote[] = [...core.notes];
@@ -66,7 +77,7 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
   const residualMs = residualDf > 0 ? residualSs / residualDf : null;
   // The centre, total sum of squares and largest magnitude of y (for the zero-residual test) in the
   // same two passes of a compensated mean and one pass of squares as `mean` and `isZeroResidual`.
-  const centre = mean(y);
+  const centre = centreOfY ?? mean(y);
   let totalSs = 0;
   let maxAbs = 0;
   for (let i = 0; i < n; i++) {
@@ -159,6 +170,17 @@ export function assembleResult(input: LinearModelInput, core: ModelCore): Linear
     aliased: core.aliased,
     notes,
   };
+}
+
+/**
+ * The checks of `validateModelInput` that read no observation, for `scanCells`, which checks the values
+ * and codes as it reads them: level counts, lengths and the terms.
+ */
+function wellShaped(input: LinearModelInput): boolean {
+  const n = input.y.length;
+  if (n < 2 || input.covariates.length > 0) return false;
+  for (const f of input.factors) if (!Number.isInteger(f.levelCount) || f.levelCount < 1 || f.codes.length !== n) return false;
+  return validateModelTerms(input) === null;
 }
 
 /**
