@@ -6,7 +6,7 @@
 import assert from "node:assert/strict";
 import fc from "fast-check";
 
-import { centerDecimalColumn, centerDecimals, decimalColumn, decimalValue, storeDecimal } from "../../server/src/stats/decimal/center-decimals.js";
+import { centerDecimalColumn, centerDecimals, decimalColumn, decimalValue, storeDecimal, storePlainDecimal } from "../../server/src/stats/decimal/center-decimals.js";
 import { emptyScan, rangeReason, scanDecimal, scanValue, significantDigits } from "../../server/src/stats/decimal/parse-decimal.js";
 
 /** Decimal texts as users type them: signs, leading and trailing zeros, points, exponents; short and long. */
@@ -120,5 +120,46 @@ describe("centerDecimalColumn", () => {
       .tuple(fc.stringMatching(/^[1-9][0-9]{0,18}$/), fc.array(fc.stringMatching(/^[0-9]{1,6}$/), { minLength: 1, maxLength: 30 }), fc.integer({ min: -30, max: 30 }))
       .map(([lead, tails, exp]) => tails.map((t) => `${lead}.${t}e${exp}`));
     fc.assert(fc.property(shared, (texts) => assertSameCentring(texts)), { numRuns: 2000 });
+  });
+});
+
+describe("storePlainDecimal", () => {
+  // What the one-pass reader stores must be what storeDecimal stores for the full scan (whose doubles are
+  // checked against Number(text) above): the same mantissa (with -0 for "-0") and exponent.
+  const plain = ["21.74", "0", "-0", "+7", "7.", ".5", "0.50", "100", "-1200.0300", "0.000000000000000000001", "123456789012345", "1", "-.25", "000.010"];
+  const other = ["", "?", ".", "-", "+", "1e5", "1.2.3", "12a", "1234567890123456", "10000000000000000000000000", "0.00000000000000000000001", "'x'"];
+  it("stores exactly what storeDecimal stores for a plain decimal", () => {
+    for (const text of plain) {
+      const expected = decimalColumn(1);
+      storeDecimal(expected, 0, scanDecimal(text) as ReturnType<typeof emptyScan>);
+      const actual = decimalColumn(1);
+      assert.equal(storePlainDecimal(`  ${text} `, 2, 2 + text.length, actual, 0), true, text);
+      assert.ok(Object.is(actual.mantissa[0], expected.mantissa[0]), `${text} mantissa ${actual.mantissa[0]} vs ${expected.mantissa[0]}`);
+      assert.equal(actual.exponent[0], expected.exponent[0], `${text} exponent`);
+    }
+  });
+  it("declines (storing nothing) what needs the full scan", () => {
+    for (const text of other) {
+      const column = decimalColumn(1);
+      assert.equal(storePlainDecimal(text, 0, text.length, column, 0), false, text);
+      assert.equal(column.exponent[0], 0);
+      assert.ok(Object.is(column.mantissa[0], 0));
+    }
+  });
+  it("agrees with the full scan on random decimal texts (property test)", () => {
+    fc.assert(
+      fc.property(fc.stringMatching(/^[+-]?[0-9]{0,9}(\.[0-9]{0,9})?$/), (text) => {
+        const actual = decimalColumn(1);
+        const stored = storePlainDecimal(text, 0, text.length, actual, 0);
+        const scan = scanDecimal(text);
+        if (!stored) return;
+        assert.notEqual(typeof scan, "string", text);
+        const expected = decimalColumn(1);
+        storeDecimal(expected, 0, scan as ReturnType<typeof emptyScan>);
+        assert.ok(Object.is(actual.mantissa[0], expected.mantissa[0]), text);
+        assert.equal(actual.exponent[0], expected.exponent[0], text);
+      }),
+      { numRuns: 2000 },
+    );
   });
 });

@@ -53,4 +53,30 @@ describe("groupMeansOfGroupings", () => {
       { numRuns: 1000 },
     );
   });
+
+  it("up to three groupings read in one pair of passes equal the one-grouping-at-a-time passes taken beyond three, bit for bit (property test)", () => {
+    fc.assert(
+      fc.property(data, ({ y, a, b, ms, df }) => {
+        const values = Float64Array.from(y);
+        const aCodes = Int32Array.from(a);
+        const bCodes = Int32Array.from(b);
+        const pooled = { ms, df };
+        const three = [
+          { codes: aCodes, groupCount: 4 },
+          { codes: bCodes, groupCount: 3 },
+          { codes: aCodes, groupCount: 12, within: { codes: bCodes, levelCount: 3 } },
+        ];
+        const fused = groupMeansOfGroupings(values, three, pooled, 0.9);
+        // A fourth grouping sends all four through the separate passes.
+        const separate = groupMeansOfGroupings(values, [...three, { codes: bCodes, groupCount: 3 }], pooled, 0.9);
+        fused.forEach((groups, q) => {
+          groups.forEach((g, k) => {
+            const h = separate[q]![k]!;
+            for (const key of ["group", "n", "mean", "sd", "lower", "upper"] as const) assert.ok(Object.is(g[key], h[key]), `grouping ${q} group ${k} ${key}: ${g[key]} vs ${h[key]}`);
+          });
+        });
+      }),
+      { numRuns: 1000 },
+    );
+  });
 });
