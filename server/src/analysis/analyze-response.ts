@@ -56,10 +56,11 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const meanFactors = design.factors.flatMap((f, i) => (f.role === "fixed" || f.role === "block" ? [i] : []));
   const allFactors = [...new Set([...usedFactors, ...meanFactors])];
   const status = runs.responseStatus[responseIndex]!;
-  // Plain loops over typed arrays (no closure per run): this runs once per response over every run. The
-  // usable rows are counted in one pass, then a second pass writes them into an exactly sized plain array
-  // (growing one by a million pushes costs several times more) and, in the same pass, each factor's level
-  // per selected run (the codes compacted below), so that no per-run mask or copy is allocated.
+  // Plain loops over typed arrays (no closure per run): this runs once per response over every run. One
+  // pass writes the usable rows, and each factor's level per selected run (the codes compacted below),
+  // into typed arrays with room for every run; the arrays used are views of their first `used` entries (no
+  // copy; the room of left-out runs, usually few, is the price). The plain array of the context's `runs`
+  // is made on first read only.
   const count = runs.count;
   const excluded = runs.excluded;
   const factorLevels = allFactors.map((f) => runs.levels[f]!);
@@ -70,30 +71,30 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     for (let q = 0; q < covariateKnown.length; q++) if (covariateKnown[q]![r] !== ValueStatus.Measured) return false;
     return true;
   };
+  const roomForRows = new Int32Array(count);
+  const roomForCodes = allFactors.map(() => new Int32Array(count));
   let used = 0;
-  for (let r = 0; r < count; r++) if (usable(r)) used++;
-  // Typed (4 bytes a run, no fill): the plain array of the context's `runs` is made on first read only.
-  const selected = new Int32Array(used);
-  const declaredCodes = allFactors.map(() => new Int32Array(used));
   if (allFactors.length === 2) {
     // The common two-factor design with its arrays in locals.
     const la = factorLevels[0]!;
     const lb = factorLevels[1]!;
-    const ca = declaredCodes[0]!;
-    const cb = declaredCodes[1]!;
-    for (let r = 0, i = 0; r < count; r++) {
+    const ca = roomForCodes[0]!;
+    const cb = roomForCodes[1]!;
+    for (let r = 0; r < count; r++) {
       if (!usable(r)) continue;
-      ca[i] = la[r]!;
-      cb[i] = lb[r]!;
-      selected[i++] = r;
+      ca[used] = la[r]!;
+      cb[used] = lb[r]!;
+      roomForRows[used++] = r;
     }
   } else {
-    for (let r = 0, i = 0; r < count; r++) {
+    for (let r = 0; r < count; r++) {
       if (!usable(r)) continue;
-      for (let q = 0; q < factorLevels.length; q++) declaredCodes[q]![i] = factorLevels[q]![r]!;
-      selected[i++] = r;
+      for (let q = 0; q < factorLevels.length; q++) roomForCodes[q]![used] = factorLevels[q]![r]!;
+      roomForRows[used++] = r;
     }
   }
+  const selected = roomForRows.subarray(0, used);
+  const declaredCodes = roomForCodes.map((codes) => codes.subarray(0, used));
 
   const empty: ResponseAnalysis = {
     name: response.name,
