@@ -209,6 +209,10 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
   const table = CLASS;
   let bodyEnd = end;
   let p = start;
+  // The text of `[chunkStart, chunkEnd)` is in `bytes` when `chunkAscii` (see `readPlainRowBytes`).
+  let chunkStart = start;
+  let chunkEnd = start;
+  let chunkAscii = false;
   while (p < end) {
     // At a line start (or the header's line break): skip the line break first. After a line feed, the
     // table ends if the line's first word (after spaces and tabs) is a top-level keyword: that line starts
@@ -242,11 +246,31 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
     }
     // A row: its first character is an ordinary one, `|` or a quote.
     if (b.rowCount === b.rowCap) growRows(b);
-    const q = readPlainRow(b, source, p, end);
+    if (p >= chunkEnd) {
+      // The next chunk of text as bytes, from this row on. `encodeInto` writes one byte per character
+      // exactly when every character is ASCII; otherwise the rows of this chunk are read from the string.
+      chunkStart = p;
+      chunkEnd = Math.min(end, p + CHUNK);
+      const done = encoder.encodeInto(source.substring(p, chunkEnd), bytes);
+      chunkAscii = done.read === chunkEnd - p && done.written === chunkEnd - p;
+    }
+    let q = chunkAscii ? readPlainRowBytes(b, source, bytes, chunkStart, p, chunkEnd, end) : -1;
+    if (q < 0) q = readPlainRow(b, source, p, end);
     p = q >= 0 ? q : readRow(b, source, p, end);
   }
   return finishScan(b, bodyEnd);
 }
+
+/**
+ * How many characters of the table are turned into bytes at a time: enough that the call per chunk
+ * costs nothing, small enough that the one buffer stays in the processor's cache and that a table in a
+ * small file is not copied whole.
+ */
+const CHUNK = 32768;
+
+/** The buffer the chunks are encoded into, shared by every scan (scans never overlap: one thread). */
+const bytes = new Uint8Array(CHUNK);
+const encoder = new TextEncoder();
 
 /**
  * The scan's result: columns trimmed to what was read. Kept out of `scanRunsTable`, whose loop is
@@ -329,6 +353,86 @@ function readPlainRow(b: RowsBuilder, source: string, p: number, end: number): n
       lastContentEnd = p + 1;
       p++;
       kind = p < end ? table[source.charCodeAt(p)]! : K_BREAK;
+    } else if (kind === K_BREAK) {
+      break;
+    } else if (kind === K_HASH) {
+      p = skipToLineEnd(source, p, end);
+      break;
+    } else {
+      return -1;
+    }
+  }
+  b.rowStart[row] = rowFirst;
+  b.rowEnd[row] = lastContentEnd;
+  b.pipeCell[row] = pipe;
+  if (pipe >= 0) b.rowsWithPipe++;
+  b.cellCount = cell;
+  b.rowCount = row + 1;
+  b.cellOffset[row + 1] = cell;
+  return p;
+}
+
+/**
+ * `readPlainRow` over bytes: the same row, read from `bytes`, which holds the ASCII text of
+ * `[base, limit)` one byte per character (so a byte's index plus `base` is the character's offset). An
+ * element of a byte array is read several times faster than a character of a string (`charCodeAt` checks
+ * the string's representation on every call), and the character loop is most of the scan. Returns -1,
+ * recording nothing, for every row `readPlainRow` would give up and for a row that runs past `limit`
+ * before `end` (the next chunk): the string readers then read it.
+ */
+function readPlainRowBytes(
+  b: RowsBuilder,
+  source: string,
+  bytes: Uint8Array,
+  base: number,
+  p: number,
+  limit: number,
+  end: number,
+): number {
+  const table = CLASS;
+  const cellStart = b.cellStart;
+  const cellEnd = b.cellEnd;
+  const cellCap = b.cellCap;
+  const row = b.rowCount;
+  const first = b.cellCount;
+  // A row reaching `limit` ends there only when `limit` is the end of the table.
+  const cut = limit < end;
+  const rowFirst = p;
+  let cell = first;
+  let pipe = -1;
+  let lastContentEnd = p;
+  let kind = table[bytes[p - base]!]!;
+  for (;;) {
+    if (kind === 0) {
+      // A bare cell, as in `readPlainRow`.
+      const s = p;
+      const head = bytes[s - base]!;
+      kind = K_BREAK;
+      while (++p < limit) {
+        const k = table[bytes[p - base]!]!;
+        if (k !== 0) {
+          kind = k;
+          break;
+        }
+      }
+      if (kind === K_QUOTE || cell === cellCap || ((p - s - 8) | (head - 101)) === 0 || (p === limit && cut)) return -1;
+      cellStart[cell] = s;
+      cellEnd[cell] = p;
+      cell++;
+      lastContentEnd = p;
+    } else if (kind === K_BLANK) {
+      p++;
+      if (p < limit) kind = table[bytes[p - base]!]!;
+      else if (cut) return -1;
+      else kind = K_BREAK;
+    } else if (kind === K_PIPE) {
+      if (pipe >= 0) return -1;
+      pipe = cell - first;
+      lastContentEnd = p + 1;
+      p++;
+      if (p < limit) kind = table[bytes[p - base]!]!;
+      else if (cut) return -1;
+      else kind = K_BREAK;
     } else if (kind === K_BREAK) {
       break;
     } else if (kind === K_HASH) {

@@ -308,6 +308,26 @@ describe("ordinary rows and the general row reader", () => {
     compareScan(`runs id a | y\n${few}${many}${few}`, "runs id a | y".length);
   });
 
+  it("reads rows that straddle the scanner's 32,768-character chunks at every position, and non-ASCII chunks", () => {
+    // The fast reader works on the text as bytes, 32,768 characters at a time; a row running past the
+    // end of a chunk is read from the string. Shifting the table by 0..39 characters puts every part of
+    // a row (a cell, a blank, '|', a comment, CR before LF) at the end of a chunk.
+    const rows = Array.from({ length: 2600 }, (_, i) =>
+      i % 5 === 0 ? `  r${i}\ta1 b2|3.5 # n\r\n` : i % 7 === 0 ? `r${i} "q ${i}" b1 | 2\n` : `  r${i} a${i % 4} b${i % 3} | ${i}.25\n`,
+    ).join("");
+    for (let shift = 0; shift < 40; shift++) {
+      const text = `runs id a b | y\n${"#".repeat(shift)}\n${rows}`;
+      compareScan(text, "runs id a b | y".length);
+    }
+    // A non-ASCII character in one chunk: that chunk is read from the string, the next ones as bytes.
+    const accented = rows.replace("r1201 ", "r1201\u00E9 ").replace("r2401 ", "r2401\u65E5 ");
+    compareScan(`runs id a b | y\n${accented}`, "runs id a b | y".length);
+    // The table ends exactly at a chunk end, and one character after.
+    const exact = `runs id a b | y\n${rows}`.slice(0, "runs id a b | y".length + 3 * 32768);
+    compareScan(exact, "runs id a b | y".length);
+    compareScan(exact, "runs id a b | y".length, "runs id a b | y".length + 32768 + 1);
+  });
+
   it("agrees with the former scanner on random long tables cut at any point", () => {
     const cell = fc.oneof(
       { weight: 12, arbitrary: fc.constantFrom("r1", "a2", "17.5", "?", "elephant", "e1234567", "excludes") },
