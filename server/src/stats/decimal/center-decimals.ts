@@ -195,22 +195,38 @@ export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<numbe
   let max = -Infinity;
   let scale = Infinity;
   const scan = emptyScan();
+  // The smallest and largest mantissa per stored exponent (-22..22) instead of each value's double: the
+  // conversion is correctly rounded, hence monotone in the mantissa for a given exponent, and values of
+  // different exponents convert in the order of their exact values, so the doubles of these extremes give
+  // the same min and max as converting every value (zeros, the only values whose sign could differ, all
+  // have exponent 0 and keep the first-seen sign as before). One division per exponent, not per value.
+  const lowest = new Float64Array(45).fill(Infinity);
+  const highest = new Float64Array(45).fill(-Infinity);
   for (let i = 0; i < n; i++) {
     const row = rows[i]!;
     const e = exponent[row]!;
-    let value: number;
     if (e !== EXPONENT_FROM_TEXT) {
       const m = mantissa[row]!;
-      value = e >= 0 ? m * EXACT_POWERS_OF_TEN[e] : m / EXACT_POWERS_OF_TEN[-e];
+      const k = e + 22;
+      if (m < lowest[k]!) lowest[k] = m;
+      if (m > highest[k]!) highest[k] = m;
       if (m !== 0 && e < scale) scale = e;
     } else {
       const text = textOf(row);
       scanDecimal(text, scan);
-      value = scanValue(text, scan);
+      const value = scanValue(text, scan);
       if (scan.significantCount > 0 && scan.exponent < scale) scale = scan.exponent;
+      if (value < min) min = value;
+      if (value > max) max = value;
     }
-    if (value < min) min = value;
-    if (value > max) max = value;
+  }
+  for (let k = 0; k < 45; k++) {
+    if (lowest[k] === Infinity) continue;
+    const e = k - 22;
+    const low = e >= 0 ? lowest[k]! * EXACT_POWERS_OF_TEN[e]! : lowest[k]! / EXACT_POWERS_OF_TEN[-e]!;
+    const high = e >= 0 ? highest[k]! * EXACT_POWERS_OF_TEN[e]! : highest[k]! / EXACT_POWERS_OF_TEN[-e]!;
+    if (low < min) min = low;
+    if (high > max) max = high;
   }
   const offset = chooseOffset(n > 0 ? textOf(rows[0]!) : undefined, min, max);
   const offsetText = formatDecimal(offset.negative, offset.digits, offset.exponent);
