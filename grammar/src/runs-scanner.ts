@@ -9,9 +9,11 @@
  * table is about 24 MB of text and must be read in about a tenth of a second. One table load per
  * character classifies it (`CLASS`); the typed-array columns are written directly by a small row reader
  * called once per row (no method call per cell) and sized once from a sampled line count
- * (`line-density.ts`), so a uniform table never regrows. Only problems (rare) allocate. What remains of
- * the cost is mostly the character loop itself and the first touch of the ~48 MB of fresh column memory
- * (page faults), which any reader that produces these columns pays.
+ * (`line-density.ts`), so a uniform table never regrows. Ordinary rows are read from the text encoded as
+ * bytes a chunk at a time (`readPlainRowBytes`), which is several times cheaper per character than
+ * `charCodeAt`. Only problems (rare) allocate. What remains of the cost is mostly the character loop
+ * itself and the first touch of the ~48 MB of fresh column memory (page faults), which any reader that
+ * produces these columns pays.
  */
 import { CellFlag, type ExcludedMark, type RunRows, type SyntaxProblem } from "./ast.js";
 import { estimateLineFeeds } from "./line-density.js";
