@@ -91,13 +91,17 @@ export function cellLayoutWithStatistics(input: LinearModelInput): CellsOfInput 
   const b = codes.length > 1 ? codes[1]! : null;
   const radixB = codes.length > 1 ? radix[1]! : 1;
   const few = codes.length <= 2;
-  for (let i = 0; i < n; i++) {
-    let key: number;
-    if (few) key = (a === null ? 0 : a[i]!) * radixB + (b === null ? 0 : b[i]!);
-    else {
-      key = 0;
-      for (let q = 0; q < codes.length; q++) key = key * radix[q]! + codes[q]![i]!;
+  if (!few) {
+    // Three or more factors: the keys factor by factor over typed arrays held in locals (one tight loop
+    // each), into cellOfRun, which the pass below then renumbers in place.
+    for (let q = 0; q < codes.length; q++) {
+      const factorCodes = codes[q]!;
+      const r = radix[q]!;
+      for (let i = 0; i < n; i++) cellOfRun[i] = cellOfRun[i]! * r + factorCodes[i]!;
     }
+  }
+  for (let i = 0; i < n; i++) {
+    const key = few ? (a === null ? 0 : a[i]!) * radixB + (b === null ? 0 : b[i]!) : cellOfRun[i]!;
     let c = dense[key]!;
     if (c < 0) {
       if (cellCount + 1 >= n) return null;
