@@ -65,14 +65,14 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const excluded = runs.excluded;
   const factorLevels = allFactors.map((f) => runs.levels[f]!);
   const covariateKnown = usedCovariates.map((c) => runs.covariateStatus[c]!);
-  const usable = (r: number): boolean => {
-    if (excluded[r] !== 0 || status[r] !== ValueStatus.Measured) return false;
-    for (let q = 0; q < factorLevels.length; q++) if (factorLevels[q]![r]! < 0) return false;
-    for (let q = 0; q < covariateKnown.length; q++) if (covariateKnown[q]![r] !== ValueStatus.Measured) return false;
-    return true;
-  };
   const roomForRows = new Int32Array(count);
   const roomForCodes = allFactors.map(() => new Int32Array(count));
+  // Runs left out are marked variable by variable (one tight loop per array), so the pass below tests one
+  // byte per run, whatever the number of factors and covariates.
+  const left = new Uint8Array(count);
+  for (let r = 0; r < count; r++) left[r] = excluded[r]! | (status[r] !== ValueStatus.Measured ? 1 : 0);
+  for (const levels of factorLevels) for (let r = 0; r < count; r++) if (levels[r]! < 0) left[r] = 1;
+  for (const known of covariateKnown) for (let r = 0; r < count; r++) if (known[r] !== ValueStatus.Measured) left[r] = 1;
   let used = 0;
   if (allFactors.length === 2) {
     // The common two-factor design with its arrays in locals.
@@ -81,17 +81,17 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     const ca = roomForCodes[0]!;
     const cb = roomForCodes[1]!;
     for (let r = 0; r < count; r++) {
-      if (!usable(r)) continue;
+      if (left[r] !== 0) continue;
       ca[used] = la[r]!;
       cb[used] = lb[r]!;
       roomForRows[used++] = r;
     }
   } else {
-    for (let r = 0; r < count; r++) {
-      if (!usable(r)) continue;
-      for (let q = 0; q < factorLevels.length; q++) roomForCodes[q]![used] = factorLevels[q]![r]!;
-      roomForRows[used++] = r;
-    }
+    for (let r = 0; r < count; r++) if (left[r] === 0) roomForRows[used++] = r;
+    factorLevels.forEach((levels, q) => {
+      const codes = roomForCodes[q]!;
+      for (let i = 0; i < used; i++) codes[i] = levels[roomForRows[i]!]!;
+    });
   }
   const selected = roomForRows.subarray(0, used);
   const declaredCodes = roomForCodes.map((codes) => codes.subarray(0, used));

@@ -178,7 +178,7 @@ export function assembleResult(input: LinearModelInput, core: ModelCore, centreO
  */
 function wellShaped(input: LinearModelInput): boolean {
   const n = input.y.length;
-  if (n < 2 || input.covariates.length > 0) return false;
+  if (n < 2 || input.covariates.length > 0 || input.factors.length < 1 || input.factors.length > 2) return false;
   for (const f of input.factors) if (!Number.isInteger(f.levelCount) || f.levelCount < 1 || f.codes.length !== n) return false;
   return validateModelTerms(input) === null;
 }
