@@ -619,10 +619,10 @@ function readRuns(
   let nextDuplicate = 0;
 
   // The tight path: the cells of every regular row (the header's count of cells, and its split at '|')
-  // are read column by column, one monomorphic loop per column, without diagnostics. The loop below then
-  // reads again, row by row and with diagnostics, only the rows that need one (irregular, excluded,
-  // pending, a repeated id, an unknown level or a value that is not a usable number), so diagnostics keep
-  // their order and most rows of a million are touched once.
+  // are read in one pass over the rows, without diagnostics. The loop after it then reads again, row by
+  // row and with diagnostics, only the rows that need one (irregular, excluded, pending, a repeated id, an
+  // unknown level or a value that is not a usable number), so diagnostics keep their order; when no row
+  // needs one, that loop is skipped and most rows of a million are touched once.
   const checkedLevels: Int32Array[] = [];
   const checkedStatus: Uint8Array[] = [];
   // Whether every row is regular and every cell read cleanly: then no row needs the second reading, and
