@@ -39,7 +39,8 @@ const MAX_SPEC_DIAGNOSTICS = 100;
 /** The model-checks extension (registered in analyze-document.ts): keys `checks` and `alternatives`. */
 export const modelChecksExtension: ResponseExtension = (context) => {
   const diagnostics: Diagnostic[] = [];
-  const { design, fit, runs } = context;
+  // `rows` (typed run indices), not `runs`: the plain array is built on first read, a million entries.
+  const { design, fit, rows } = context;
   const response = design.responses[context.responseIndex]!;
   const anchor = context.anchors.response;
   const alpha = context.result.alpha;
@@ -118,9 +119,9 @@ export const modelChecksExtension: ResponseExtension = (context) => {
     const candidates = screen === null ? null : studentizedCandidates(fit, screen);
     const flags = candidates ? bonferroniOutliersAmong(candidates.index, candidates.studentized, fit.residuals.length, fit.residual.df, alpha) : [];
     if (flags.length > 0) {
-      checks.outliers = flags.map((f) => ({ run: runs.length ? runId(design.runs, runs[f.index]!) : "", row: runs[f.index]!, studentized: f.studentized, p: f.p }));
+      checks.outliers = flags.map((f) => ({ run: rows.length ? runId(design.runs, rows[f.index]!) : "", row: rows[f.index]!, studentized: f.studentized, p: f.p }));
       for (const f of flags) {
-        const row = runs[f.index]!;
+        const row = rows[f.index]!;
         diagnostics.push(
           diagnostic(
             "outlier",
