@@ -24,3 +24,20 @@ describe("extendResult", () => {
     assert.equal(typeof Object.getOwnPropertyDescriptor(again, "residuals")!.get, "function");
   });
 });
+
+describe("withResult", () => {
+  it("replaces the result without reading the context's accessors", async () => {
+    const { withResult } = await import("../../server/src/analysis/analyze-response.js");
+    let built = 0;
+    const context = { responseIndex: 1, get runs() {
+      built++;
+      return [0, 1];
+    }, result: { name: "old" } } as unknown as Parameters<typeof withResult>[0];
+    const next = withResult(context, { name: "new" } as unknown as ResponseAnalysis);
+    assert.equal(built, 0, "the run array must not be built by the copy");
+    assert.equal((next.result as { name: string }).name, "new");
+    assert.equal(next.responseIndex, 1);
+    assert.deepEqual(next.runs, [0, 1]);
+    assert.equal(built, 1);
+  });
+});

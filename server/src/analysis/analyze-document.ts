@@ -1,6 +1,6 @@
 import type { Span, TrialFile } from "../../../grammar/src/ast.js";
 import { parseTrial } from "../../../grammar/src/parse.js";
-import { analyzeResponse, extendResult, type ResponseContext } from "./analyze-response.js";
+import { analyzeResponse, extendResult, type ResponseContext, withResult } from "./analyze-response.js";
 import { type AnalysisSettings, buildDesign } from "./build-design.js";
 import { checkSystematicOrder } from "./checks/systematic-order.js";
 import { type Diagnostic, type DiagnosticCode, diagnostic } from "./diagnostics.js";
@@ -63,7 +63,7 @@ export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, 
       for (const extension of RESPONSE_EXTENSIONS) {
         // One failing analysis must not take the others down: report it where the response is declared.
         try {
-          const { add, diagnostics: more, supersedes } = extension({ ...context, result: extended });
+          const { add, diagnostics: more, supersedes } = extension(withResult(context, extended));
           extended = extendResult(extended, add);
           if (supersedes && supersedes.length > 0) {
             const stale = new Set(supersedes);

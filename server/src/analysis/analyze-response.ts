@@ -289,6 +289,17 @@ export function extendResult(base: ResponseAnalysis, add: Partial<ResponseAnalys
   return out as unknown as ResponseAnalysis;
 }
 
+/**
+ * The context an extension sees: `context` with `result` replaced. Accessors stay accessors (a spread would
+ * call the `runs` getter and build a plain array of every run for each extension).
+ */
+export function withResult(context: ResponseContext, result: ResponseAnalysis): ResponseContext {
+  const out: Record<string, unknown> = {};
+  copyProperties(out, context);
+  out.result = result;
+  return out as unknown as ResponseContext;
+}
+
 function copyProperties(out: Record<string, unknown>, from: object): void {
   for (const key of Object.keys(from)) {
     const descriptor = Object.getOwnPropertyDescriptor(from, key)!;
