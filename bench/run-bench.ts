@@ -96,18 +96,38 @@ function writeFiles(layout: Layout): { trial: string; csv?: string } {
   return { trial: `${base}.trial`, csv: `${base}.csv` };
 }
 
-/** Wall seconds, CPU seconds and peak RSS of a command, via GNU time when available. */
-function timeCommand(command: string, args: readonly string[]): { wallS: number; cpuS: number | null; peakMb: number | null; ok: boolean } {
+/** Longest a timed command may run before it is killed and run again (seconds). */
+const COMMAND_TIMEOUT_S = 300;
+
+/**
+ * Wall seconds, CPU seconds and peak RSS of a command, via GNU time when available. The command runs under
+ * coreutils `timeout`: Node 20 can, rarely, hang at exit after finishing its work (a deadlock between the
+ * main thread draining V8's platform tasks and a worker task, nodejs/node#54918; seen once in this bench, in
+ * `trialbook analyze` with its output already written). A run killed that way is run once more and
+ * flagged `retried`, so one hang does not stall the bench or count as a time.
+ */
+function timeCommand(command: string, args: readonly string[]): { wallS: number; cpuS: number | null; peakMb: number | null; ok: boolean; retried?: boolean } {
+  const first = timeOnce(command, args);
+  if (!first.timedOut) return first.run;
+  process.stderr.write(`bench: ${command} ${args.join(" ")} did not finish in ${COMMAND_TIMEOUT_S} s; running it again\n`);
+  return { ...timeOnce(command, args).run, retried: true };
+}
+
+function timeOnce(command: string, args: readonly string[]): { run: { wallS: number; cpuS: number | null; peakMb: number | null; ok: boolean }; timedOut: boolean } {
   const gnuTime = existsSync("/usr/bin/time");
+  const limit = existsSync("/usr/bin/timeout") ? ["/usr/bin/timeout", "-s", "KILL", String(COMMAND_TIMEOUT_S)] : [];
+  const argv = [...limit, command, ...args];
   const start = performance.now();
   const result = gnuTime
-    ? spawnSync("/usr/bin/time", ["-f", "TIME %e %U %S %M", command, ...args], { encoding: "utf8", maxBuffer: 1 << 28 })
-    : spawnSync(command, args, { encoding: "utf8", maxBuffer: 1 << 28 });
+    ? spawnSync("/usr/bin/time", ["-f", "TIME %e %U %S %M", ...argv], { encoding: "utf8", maxBuffer: 1 << 28 })
+    : spawnSync(argv[0]!, argv.slice(1), { encoding: "utf8", maxBuffer: 1 << 28, timeout: COMMAND_TIMEOUT_S * 1000, killSignal: "SIGKILL" });
   const wallS = (performance.now() - start) / 1000;
+  // coreutils timeout exits with 128 + 9 when it had to kill the command.
+  const timedOut = result.status === 137 || result.signal === "SIGKILL";
   const line = (result.stderr ?? "").split("\n").reverse().find((l) => l.startsWith("TIME "));
-  if (!line) return { wallS, cpuS: null, peakMb: null, ok: result.status === 0 || result.status === 1 };
+  if (!line) return { run: { wallS, cpuS: null, peakMb: null, ok: result.status === 0 || result.status === 1 }, timedOut };
   const [, e, u, s, m] = line.split(" ");
-  return { wallS: Number(e), cpuS: Number(u) + Number(s), peakMb: Math.round(Number(m) / 1024), ok: result.status === 0 || result.status === 1 };
+  return { run: { wallS: Number(e), cpuS: Number(u) + Number(s), peakMb: Math.round(Number(m) / 1024), ok: result.status === 0 || result.status === 1 }, timedOut };
 }
 
 function rscript(): string | null {
