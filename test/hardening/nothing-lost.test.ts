@@ -84,6 +84,15 @@ describe("hardening: nothing lost", function () {
     );
   });
 
+  it("formatting keeps a last cell ending in a character JavaScript trims as white space (found by the fuzzer: a vertical tab was dropped)", () => {
+    for (const odd of ["\u000b", "\u00a0", "\u2028"]) {
+      const text = `response y\nfactor a levels p, q\nruns id a | y\n  r1 p | 1\n  r2 q | 86.5${odd}`;
+      const doc = structural(text);
+      const after = applyCheckedEdits(text, doc.lineIndex, formatDocument(doc), "formatting");
+      assert.deepEqual(recorded(after), recorded(text), `formatting with ${JSON.stringify(odd)}`);
+    }
+  });
+
   it("formatting keeps stray text after an excluded reason (found by the fuzzer: it was dropped)", () => {
     const text = 'response y\nfactor a levels p, q\nruns id a | y\n  r1 p | 1 excluded "why" oops\n  r2 q | 2\n';
     const doc = structural(text);

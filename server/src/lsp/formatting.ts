@@ -218,7 +218,11 @@ function layoutRunsTable(file: TrialFile, index: LineIndex, lines: Map<number, s
       if (c > 0) out += c === separator || c - 1 === separator ? " " : "  ";
       out += cell + " ".repeat((widths[c] ?? 0) - codePointLength(cell));
     });
-    return out.trimEnd();
+    // Only the padding spaces: `trimEnd` would also strip a cell's own trailing characters that JavaScript
+    // counts as white space (a vertical tab or NBSP ending the last cell: found by the nothing-lost fuzzer).
+    let end = out.length;
+    while (end > 0 && out.charCodeAt(end - 1) === 32) end--;
+    return out.slice(0, end);
   };
   const full = grids.length > 0 ? Math.max(...grids.map((g) => codePointLength(render(g.grid)))) : 0;
   for (const g of grids) {
