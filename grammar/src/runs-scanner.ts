@@ -364,13 +364,7 @@ function readPlainRow(b: RowsBuilder, source: string, p: number, end: number): n
       return -1;
     }
   }
-  b.rowStart[row] = rowFirst;
-  b.rowEnd[row] = lastContentEnd;
-  b.pipeCell[row] = pipe;
-  if (pipe >= 0) b.rowsWithPipe++;
-  b.cellCount = cell;
-  b.rowCount = row + 1;
-  b.cellOffset[row + 1] = cell;
+  commitRow(b, row, rowFirst, lastContentEnd, pipe, cell);
   return p;
 }
 
@@ -444,13 +438,7 @@ function readPlainRowBytes(
       return -1;
     }
   }
-  b.rowStart[row] = rowFirst;
-  b.rowEnd[row] = lastContentEnd;
-  b.pipeCell[row] = pipe;
-  if (pipe >= 0) b.rowsWithPipe++;
-  b.cellCount = cell;
-  b.rowCount = row + 1;
-  b.cellOffset[row + 1] = cell;
+  commitRow(b, row, rowFirst, lastContentEnd, pipe, cell);
   return p;
 }
 
@@ -715,4 +703,15 @@ function scanQuoted(source: string, p: number, end: number): number {
   }
   lastQuotedTerminated = false;
   return p;
+}
+
+/** Records a row read by `readPlainRow` or `readPlainRowBytes`: its extent, its '|' and its last cell. */
+function commitRow(b: RowsBuilder, row: number, rowFirst: number, lastContentEnd: number, pipe: number, cell: number): void {
+  b.rowStart[row] = rowFirst;
+  b.rowEnd[row] = lastContentEnd;
+  b.pipeCell[row] = pipe;
+  if (pipe >= 0) b.rowsWithPipe++;
+  b.cellCount = cell;
+  b.rowCount = row + 1;
+  b.cellOffset[row + 1] = cell;
 }
