@@ -60,11 +60,16 @@ export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, 
     diagnostics.push(...found);
     let extended = result;
     if (context) {
+      // The context is rebuilt only when an extension added keys (most add none for a given design).
+      let seen = withResult(context, extended);
       for (const extension of RESPONSE_EXTENSIONS) {
         // One failing analysis must not take the others down: report it where the response is declared.
         try {
-          const { add, diagnostics: more, supersedes } = extension(withResult(context, extended));
-          extended = extendResult(extended, add);
+          const { add, diagnostics: more, supersedes } = extension(seen);
+          if (Object.keys(add).length > 0) {
+            extended = extendResult(extended, add);
+            seen = withResult(context, extended);
+          }
           if (supersedes && supersedes.length > 0) {
             const stale = new Set(supersedes);
             const kept = diagnostics.splice(firstOfResponse).filter((d) => !stale.has(d.code));
