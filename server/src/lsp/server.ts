@@ -29,6 +29,7 @@ import { prepareRename, rename } from "./rename.js";
 import { SEMANTIC_TOKENS_LEGEND, semanticTokens } from "./semantic-tokens.js";
 import { DEFAULT_SERVER_SETTINGS, readSettings, type ServerSettings } from "./settings.js";
 import { documentSymbols } from "./symbols.js";
+import { warmUpEngine } from "./warm-up.js";
 
 /** The settings section the server reads. */
 export const SETTINGS_SECTION = "trialbook";
@@ -119,10 +120,14 @@ export function createServer(connection: Connection): TrialbookServer {
       logError(`reading the ${SETTINGS_SECTION} settings failed: ${describeError(error)}`);
     }
   };
+  let warmUp: { cancel(): void } | undefined;
   connection.onInitialized(() => {
     if (features.dynamicConfiguration) void connection.client.register(DidChangeConfigurationNotification.type, { section: SETTINGS_SECTION });
     void pullSettings();
+    // Trains the engine's code while the editor starts, so the first keystrokes get optimised code (warm-up.ts).
+    warmUp = warmUpEngine();
   });
+  connection.onShutdown(() => warmUp?.cancel());
   connection.onDidChangeConfiguration((change) => {
     if (features.configuration) {
       void pullSettings();
