@@ -11,7 +11,7 @@ import type { LinearModelResult } from "../../stats/linear-model/types.js";
 
 /** Externally studentized residuals of `fit` (Belsley, Kuh & Welsch 1980), NaN where the fit has null. */
 export function studentizedValues(fit: LinearModelResult): Float64Array {
-  return caseStatisticValues(fit.residuals, fit.leverage, fit.residual.ss, fit.residual.df, testable(fit)).studentized;
+  return caseStatisticValues(fit.residuals, fit.leverage, fit.residual.ss, fit.residual.df, fit.caseStatisticsDefined).studentized;
 }
 
 /** Runs that may have |t| >= `minimum`, and their studentized residuals (NaN where undefined). */
@@ -54,10 +54,5 @@ export function studentizedCandidates(fit: LinearModelResult, minimum: number): 
     e[j] = residuals[chosen[j]!]!;
     h[j] = leverage[chosen[j]!]!;
   }
-  return { index: chosen, studentized: caseStatisticValues(e, h, ss, df, testable(fit)).studentized };
-}
-
-/** The fit computes case statistics only with a residual df and a residual that is not zero. */
-function testable(fit: LinearModelResult): boolean {
-  return fit.residual.ms !== null && !fit.notes.some((note) => note.code === "zero-residual-variance");
+  return { index: chosen, studentized: caseStatisticValues(e, h, ss, df, fit.caseStatisticsDefined).studentized };
 }

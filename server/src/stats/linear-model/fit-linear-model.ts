@@ -132,6 +132,7 @@ export function assembleResult(input: LinearModelInput, core: ModelCore, centreO
     total: { source: "Total", df: n - 1, ss: totalSs },
     rSquared,
     residualSd,
+    caseStatisticsDefined: testable,
     // A getter, so that a core computing its fitted values on first read (the cell path) keeps doing so.
     get fitted(): Float64Array {
       return core.fitted;

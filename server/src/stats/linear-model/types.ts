@@ -142,6 +142,12 @@ export interface LinearModelResult {
   readonly fitted: Float64Array;
   readonly residuals: Float64Array;
   readonly leverage: Float64Array;
+  /**
+   * Whether standardized and studentized residuals are defined at all: a residual mean square exists and
+   * the residual is not zero to rounding. Consumers that compute case statistics for a subset of the runs
+   * (the outlier screen) pass it on to `caseStatisticValues` instead of re-deriving it.
+   */
+  readonly caseStatisticsDefined: boolean;
   /** Internally studentized residuals e / (s sqrt(1 - h)); null where h = 1 or s = 0. */
   readonly standardized: readonly (number | null)[];
   /** Externally studentized residuals (Belsley, Kuh & Welsch 1980); null where undefined. */
