@@ -2,18 +2,16 @@
  * The CLI's file reader gives the very string Node's own `readFile(path, "utf8")` gives (the reference
  * named in each check): on ASCII text, on UTF-8 with a byte-order mark and characters outside ASCII, on
  * bytes that are not valid UTF-8, on an empty file, and on files larger than the chunk size of Node's
- * promise-based reader. The fallback ASCII test agrees with Node's `buffer.isAscii`.
+ * promise-based reader.
  */
 import assert from "node:assert/strict";
-import * as nodeBuffer from "node:buffer";
 import fs from "node:fs";
 import { readFile } from "node:fs/promises";
 import os from "node:os";
 import path from "node:path";
 import fc from "fast-check";
-import { decodeText, isAscii, isAsciiBytes, readTextFile, readTextFileSync } from "../../server/src/cli/read-text.js";
+import { decodeText, isAscii, readTextFile, readTextFileSync } from "../../server/src/cli/read-text.js";
 
-const nativeIsAscii = (nodeBuffer as unknown as { isAscii?: (input: Uint8Array) => boolean }).isAscii;
 
 describe("readTextFile", () => {
   let dir: string;
@@ -80,29 +78,7 @@ describe("readTextFile", () => {
   });
 });
 
-describe("isAsciiBytes", () => {
-  it("agrees with Node's buffer.isAscii on random bytes and a high byte at every position of a block", () => {
-    assert.equal(typeof nativeIsAscii, "function", "Node 20 has buffer.isAscii");
-    const check = nativeIsAscii!;
-    fc.assert(
-      fc.property(fc.uint8Array({ maxLength: 9000 }), fc.boolean(), (raw, clear) => {
-        // Half of the cases with the high bits cleared, so that both answers occur.
-        const bytes = clear ? raw.map((b) => b & 0x7f) : raw;
-        assert.equal(isAsciiBytes(bytes), check(bytes));
-      }),
-      { numRuns: 300, seed: 20261202 },
-    );
-    const block = new Uint8Array(8200).fill(0x41);
-    assert.equal(isAsciiBytes(block), true);
-    for (const at of [0, 1, 4095, 4096, 4097, 8199]) {
-      block[at] = 0x80;
-      assert.equal(isAsciiBytes(block), false, `high byte at ${at}`);
-      assert.equal(check(block), false);
-      block[at] = 0x41;
-    }
-    assert.equal(isAsciiBytes(new Uint8Array(0)), true);
-  });
-
+describe("decodeText", () => {
   it("decodeText gives Buffer.toString('utf8') on random bytes", () => {
     fc.assert(
       fc.property(fc.uint8Array({ maxLength: 300 }), (raw) => {

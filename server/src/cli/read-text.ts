@@ -11,34 +11,13 @@
  * Otherwise the bytes are decoded as UTF-8 exactly as before (a byte-order mark is kept as U+FEFF, an
  * invalid byte becomes U+FFFD, as `Buffer.toString("utf8")` does).
  */
-import * as nodeBuffer from "node:buffer";
+import { isAscii as bufferIsAscii } from "node:buffer";
 import { readFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 
-/** `buffer.isAscii` (Node 18.15 / 19.6 and later), or undefined on an older Node. */
-const nativeIsAscii: ((input: Uint8Array) => boolean) | undefined = (
-  nodeBuffer as unknown as { isAscii?: (input: Uint8Array) => boolean }
-).isAscii;
-
-/**
- * True when every byte of `bytes` is below 0x80, by a loop over the bytes: the OR of a block of bytes has
- * its high bit set when one of them has. Used where `buffer.isAscii` is missing.
- */
-export function isAsciiBytes(bytes: Uint8Array): boolean {
-  const n = bytes.length;
-  let i = 0;
-  while (i < n) {
-    const stop = Math.min(n, i + 4096);
-    let any = 0;
-    for (; i < stop; i++) any |= bytes[i]!;
-    if ((any & 0x80) !== 0) return false;
-  }
-  return true;
-}
-
-/** True when every byte of `bytes` is ASCII: `buffer.isAscii` when Node has it, else `isAsciiBytes`. */
+/** True when every byte of `bytes` is ASCII (Node's `buffer.isAscii`, present on every Node we support). */
 export function isAscii(bytes: Uint8Array): boolean {
-  return nativeIsAscii !== undefined ? nativeIsAscii(bytes) : isAsciiBytes(bytes);
+  return bufferIsAscii(bytes);
 }
 
 /** The text of a file's bytes: a Latin-1 copy when all are ASCII, else UTF-8 decoding (`Buffer.toString`). */
