@@ -19,12 +19,6 @@ import { CellFlag, type ExcludedMark, type RunRows, type SyntaxProblem } from ".
 import { estimateLineFeeds } from "./line-density.js";
 import { isTopLevelKeywordAt } from "./top-level-keywords.js";
 
-/** The rows of one table body and the syntax problems found in it. */
-export interface RunsScanResult {
-  readonly rows: RunRows;
-  readonly problems: SyntaxProblem[];
-}
-
 /**
  * What one pass over a runs-table body found, before the header is known. The checks that compare a
  * row's `|` with the header's are made later by `runsBodyProblems`, which needs only the rows.
@@ -636,17 +630,6 @@ export function runsBodyProblems(scan: RunsBodyScan, headerHasPipe: boolean): Sy
   }
   while (j < inRows.length) out.push(inRows[j++]!);
   return out;
-}
-
-/**
- * Scans the table body `source[start, end)` into rows and cells, with every problem. `start` is the line
- * break that ends the header line; `end` is where the body ends (the table also stops earlier at a line
- * starting with a top-level keyword, which a `RunsBody` token never contains). `headerHasPipe` says
- * whether the header separates factor from response columns, so a row without `|` is reported.
- */
-export function scanRunsBody(source: string, start: number, end: number, headerHasPipe: boolean): RunsScanResult {
-  const scan = scanRunsTable(source, start, end);
-  return { rows: scan.rows, problems: runsBodyProblems(scan, headerHasPipe) };
 }
 
 function skipToLineEnd(source: string, p: number, end: number): number {

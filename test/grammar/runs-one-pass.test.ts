@@ -12,7 +12,7 @@ import { CellFlag, type RunRows, type SyntaxProblem, type TrialFile } from "../.
 import { LineIndex } from "../../grammar/src/line-index.js";
 import { parseTrial } from "../../grammar/src/parse.js";
 import { cellText } from "../../grammar/src/runs-table.js";
-import { runsBodyProblems, scanRunsBody, scanRunsTable } from "../../grammar/src/runs-scanner.js";
+import { runsBodyProblems, scanRunsTable } from "../../grammar/src/runs-scanner.js";
 import { isTopLevelKeywordAt, lineStartsWithTopLevelKeyword, TOP_LEVEL_KEYWORDS } from "../../grammar/src/top-level-keywords.js";
 import { lineStartsWithTopLevelKeywordReference } from "./reference-keyword-line.js";
 import { ReferenceLineIndex } from "./reference-line-index.js";
@@ -244,9 +244,6 @@ describe("runs table read in one pass", () => {
           const ref = referenceScanRunsBody(text, start, scan.end, hasPipe);
           assert.deepEqual(plainRows(scan.rows), plainRows(ref.rows));
           assert.deepEqual(runsBodyProblems(scan, hasPipe), ref.problems);
-          // The compatibility wrapper gives the same as the former scanner over the same range.
-          const wrapped = scanRunsBody(text, start, scan.end, hasPipe);
-          assert.deepEqual(wrapped.problems, ref.problems);
         }
         // And through the whole parser: the table the AST holds is the former path's.
         parseAndCompare(text);
