@@ -44,6 +44,7 @@ export class ProtocolClient {
   private readonly waiters: { uri: string; test: (p: PublishDiagnosticsParams) => boolean; resolve: (p: PublishDiagnosticsParams) => void }[] = [];
   /** Every publishDiagnostics notification received, in order. */
   readonly published: PublishDiagnosticsParams[] = [];
+  private readonly logWaiters: { test: (message: string) => boolean; resolve: (message: string) => void }[] = [];
   /** Every window/logMessage text received. */
   readonly logs: string[] = [];
   /** Settings the client answers `workspace/configuration` with. */
@@ -67,6 +68,13 @@ export class ProtocolClient {
     });
     connection.onNotification("window/logMessage", (p: { message: string }) => {
       this.logs.push(p.message);
+      for (let i = 0; i < this.logWaiters.length; i++) {
+        const w = this.logWaiters[i]!;
+        if (w.test(p.message)) {
+          this.logWaiters.splice(i--, 1);
+          w.resolve(p.message);
+        }
+      }
     });
     connection.onRequest("workspace/configuration", (p: { items: { section?: string }[] }) => p.items.map((i) => (i.section === "trialbook" ? this.settings : null)));
     connection.onRequest("client/registerCapability", () => null);
@@ -108,6 +116,22 @@ export class ProtocolClient {
         resolve: (p) => {
           clearTimeout(timer);
           resolvePromise(p);
+        },
+      });
+    });
+  }
+
+  /** The first server log message (received already or later) that passes `test`. */
+  waitForLog(test: (message: string) => boolean, timeoutMs = 30_000): Promise<string> {
+    const seen = this.logs.find(test);
+    if (seen !== undefined) return Promise.resolve(seen);
+    return new Promise((resolvePromise, reject) => {
+      const timer = setTimeout(() => reject(new Error(`no matching server log message within ${timeoutMs} ms`)), timeoutMs);
+      this.logWaiters.push({
+        test,
+        resolve: (message) => {
+          clearTimeout(timer);
+          resolvePromise(message);
         },
       });
     });

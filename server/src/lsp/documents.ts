@@ -66,6 +66,8 @@ export class DocumentStore {
   private readonly timers = new Map<string, { cancel(): void }>();
   /** Statistics since start; never reset. */
   readonly stats: DocumentStoreStats = { analyses: 0, abandoned: 0 };
+  /** performance.now() of the last change to, or analysis of, an open document. */
+  private lastActivity = Number.NEGATIVE_INFINITY;
 
   constructor(
     private readonly sinks: DocumentStoreSinks,
@@ -84,12 +86,18 @@ export class DocumentStore {
   get(uri: string): AnalyzedDocument | undefined {
     const doc = this.documents.get(uri);
     if (!doc) return undefined;
+    this.lastActivity = performance.now();
     const cached = this.cache.get(uri);
     if (cached && cached.version === doc.version) return cached;
     const fresh = analyzeText(uri, doc.version, doc.getText(), toAnalysisDefaults(this.settings()));
     this.stats.analyses++;
     this.cache.set(uri, fresh);
     return fresh;
+  }
+
+  /** True when an open document changed or was analysed within the last `ms` milliseconds. */
+  activeWithin(ms: number): boolean {
+    return performance.now() - this.lastActivity < ms;
   }
 
   /** The URIs of all open documents. */
@@ -108,6 +116,7 @@ export class DocumentStore {
    * restarts the delay; work already started is abandoned at its next checkpoint when the version moved on.
    */
   private schedule(uri: string): void {
+    this.lastActivity = performance.now();
     this.timers.get(uri)?.cancel();
     const doc = this.documents.get(uri);
     if (!doc) return;
@@ -164,6 +173,7 @@ export class DocumentStore {
             return;
           }
           this.cache.set(uri, analyzed);
+          this.lastActivity = performance.now();
           this.publish(analyzed);
         } catch (error) {
           this.sinks.logError(`analysis of ${uri} failed: ${describeError(error)}`);

@@ -29,7 +29,7 @@ import { prepareRename, rename } from "./rename.js";
 import { SEMANTIC_TOKENS_LEGEND, semanticTokens } from "./semantic-tokens.js";
 import { DEFAULT_SERVER_SETTINGS, readSettings, type ServerSettings } from "./settings.js";
 import { documentSymbols } from "./symbols.js";
-import { warmUpEngine } from "./warm-up.js";
+import { QUIET_MS, WARM_UP_LOG_PREFIX, warmUpEngine } from "./warm-up.js";
 
 /** The settings section the server reads. */
 export const SETTINGS_SECTION = "trialbook";
@@ -125,7 +125,10 @@ export function createServer(connection: Connection): TrialbookServer {
     if (features.dynamicConfiguration) void connection.client.register(DidChangeConfigurationNotification.type, { section: SETTINGS_SECTION });
     void pullSettings();
     // Trains the engine's code while the editor starts, so the first keystrokes get optimised code (warm-up.ts).
-    warmUp = warmUpEngine();
+    const started = warmUpEngine({ busy: () => store.activeWithin(QUIET_MS) });
+    warmUp = started;
+    // Said in the server log (the editor's output panel); the benchmark waits for this line.
+    void started.done.then((s) => connection.console.log(`${WARM_UP_LOG_PREFIX} ${s.analyses} analyses, ${s.ms} ms`));
   });
   connection.onShutdown(() => warmUp?.cancel());
   connection.onDidChangeConfiguration((change) => {
