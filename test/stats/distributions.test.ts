@@ -91,6 +91,17 @@ describe("stats distributions against R 4.2.2 (test/stats/fixtures/r/distributio
     for (const r of fixture.qt) assertClose(tQuantile(r.p, r.df), r.value, 1e-13, `qt(${r.p}, ${r.df})`);
   });
 
+  it("t quantile: asked again (kept recent values, and after they were cleared), still the R reference", () => {
+    const check = (label: string) => {
+      for (const r of fixture.qt) assertClose(tQuantile(r.p, r.df), r.value, 1e-13, `qt(${r.p}, ${r.df}) ${label}`);
+    };
+    check("first");
+    check("kept");
+    // More other quantiles than are kept: the set is cleared, and the references are computed afresh.
+    for (let df = 2; df < 200; df++) assert.ok(tQuantile(0.975, df) > 1.9);
+    check("after clearing");
+  });
+
   it("F quantile: 1e-13 relative (reference refined on R's pf, see README)", () => {
     for (const r of fixture.qf) assertClose(fQuantile(r.p, r.df1, r.df2), r.value, 1e-13, `qf(${r.p}, ${r.df1}, ${r.df2})`);
   });

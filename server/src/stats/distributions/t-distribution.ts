@@ -49,9 +49,20 @@ export function tQuantile(p: number, df: number): number {
   if (p === 0) return -Infinity;
   if (p === 1) return Infinity;
   if (p === 0.5) return 0;
-  if (p > 0.5) return -lowerQuantile(1 - p, df);
-  return lowerQuantile(p, df);
+  const key = `${p} ${df}`;
+  const known = recentQuantiles.get(key);
+  if (known !== undefined) return known;
+  const q = p > 0.5 ? -lowerQuantile(1 - p, df) : lowerQuantile(p, df);
+  if (recentQuantiles.size >= RECENT_QUANTILE_LIMIT) recentQuantiles.clear();
+  recentQuantiles.set(key, q);
+  return q;
 }
+
+// Every re-analysis asks again for the same few quantiles (the confidence level's t at the residual df,
+// the outlier bound at alpha/2n): each is a root search of about ten incomplete-beta evaluations (~0.07
+// ms), so recent ones are kept. Bounded, and cleared whole when full; a pure function of (p, df).
+const RECENT_QUANTILE_LIMIT = 64;
+const recentQuantiles = new Map<string, number>();
 
 /** Quantile for 0 < p < ½, as a negative t. */
 function lowerQuantile(p: number, df: number): number {
