@@ -16,4 +16,8 @@ void runCli(process.argv.slice(2), {
   isTty: process.stdout.isTTY === true,
 }).then((code) => {
   process.exitCode = code;
+  // Exit as soon as the output is flushed rather than when the event loop runs dry: at that point Node 20
+  // drains V8's background tasks and can deadlock there (nodejs/node#54918; one 1M-run analyze in about
+  // forty hung after printing its output). The empty writes call back once everything before them is out.
+  process.stdout.write("", () => process.stderr.write("", () => process.exit(code)));
 });
