@@ -76,6 +76,12 @@ describe("readTextFile", () => {
     await assert.rejects(readTextFile(missing), { code: "ENOENT" });
     assert.throws(() => readTextFileSync(missing), { code: "ENOENT" });
   });
+
+  it("rejects a directory and reads a device with no size as readFile does", async () => {
+    await assert.rejects(readFile(dir, "utf8"), { code: "EISDIR" });
+    await assert.rejects(readTextFile(dir), { code: "EISDIR" });
+    assert.equal(await readTextFile("/dev/null"), await readFile("/dev/null", "utf8"));
+  });
 });
 
 describe("decodeText", () => {

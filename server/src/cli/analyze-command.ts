@@ -1,4 +1,5 @@
 import { resolve } from "node:path";
+import { prepareParsing } from "../../../grammar/src/parse.js";
 import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { SumsOfSquaresType } from "../analysis/design.js";
 import { alignColumns } from "../text/align-columns.js";
@@ -34,9 +35,12 @@ export async function analyzeCommand(args: readonly string[], io: CliIo): Promis
   const confidence = probability(values.confidence, "confidence");
   let exit = EXIT_OK;
   for (const path of positionals) {
-    const text = await readTextFile(resolve(io.cwd, path)).catch(() => {
+    const reading = readTextFile(resolve(io.cwd, path)).catch(() => {
       throw new UsageError(`Cannot read '${path}'.`);
     });
+    // The lexer and parser are built (once) while the file is read.
+    prepareParsing();
+    const text = await reading;
     const analysis = analyzeDocument(text, {}, { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) });
     const diagnostics = locateDiagnostics(text, analysis.diagnostics);
     io.stdout(format === "json" ? JSON.stringify(analysisJson(path, analysis, diagnostics), null, 2) + "\n" : analysisText(path, analysis, diagnostics));

@@ -1,5 +1,6 @@
 import { resolve } from "node:path";
 import type { Span } from "../../../grammar/src/ast.js";
+import { prepareParsing } from "../../../grammar/src/parse.js";
 import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { Diagnostic } from "../analysis/diagnostics.js";
 import { choice, parseArguments } from "./arguments.js";
@@ -75,8 +76,11 @@ export async function checkCommand(args: readonly string[], io: CliIo): Promise<
   const sarif: SarifDiagnostic[] = [];
   for (const file of files) {
     let text: string;
+    // The lexer and parser are built (once) while the file is read.
+    const reading = readTextFile(resolve(io.cwd, file));
+    prepareParsing();
     try {
-      text = await readTextFile(resolve(io.cwd, file));
+      text = await reading;
     } catch {
       throw new UsageError(`Cannot read '${file}'.`);
     }

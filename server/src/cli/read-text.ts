@@ -13,7 +13,7 @@
  */
 import { isAscii as bufferIsAscii } from "node:buffer";
 import { readFileSync } from "node:fs";
-import { readFile } from "node:fs/promises";
+import { open } from "node:fs/promises";
 
 /** True when every byte of `bytes` is ASCII (Node's `buffer.isAscii`, present on every Node we support). */
 export function isAscii(bytes: Uint8Array): boolean {
@@ -27,7 +27,40 @@ export function decodeText(bytes: Buffer): string {
 
 /** Reads the file at `path` as text: the same string as `readFile(path, "utf8")`, flat. Rejects as it does. */
 export async function readTextFile(path: string): Promise<string> {
-  return decodeText(await readFile(path));
+  return decodeText(await readBytes(path));
+}
+
+/**
+ * The file's bytes, as `readFile(path)` gives them. A regular file is read with one read request for its
+ * whole size: `readFile` reads in 512 KiB pieces, one thread-pool round trip each (about 90 ms for a
+ * 22 MB file here), and the caller's work meanwhile (building the parser) finished long before. Anything
+ * else (empty, a pipe, a file that grew) is read on to its end as `readFile` would.
+ */
+async function readBytes(path: string): Promise<Buffer> {
+  const handle = await open(path, "r");
+  try {
+    const { size } = await handle.stat();
+    if (size === 0) return await handle.readFile();
+    const bytes = Buffer.allocUnsafe(size);
+    let filled = 0;
+    while (filled < size) {
+      const { bytesRead } = await handle.read(bytes, filled, size - filled, filled);
+      if (bytesRead === 0) return bytes.subarray(0, filled);
+      filled += bytesRead;
+    }
+    // The file may have grown since `stat`: the rest, to its end (usually one read that returns nothing).
+    const parts = [bytes];
+    for (let position = size; ; ) {
+      const more = Buffer.allocUnsafe(64 * 1024);
+      const { bytesRead } = await handle.read(more, 0, more.length, position);
+      if (bytesRead === 0) break;
+      parts.push(more.subarray(0, bytesRead));
+      position += bytesRead;
+    }
+    return parts.length === 1 ? bytes : Buffer.concat(parts);
+  } finally {
+    await handle.close();
+  }
 }
 
 /** Reads the file at `path` as text: the same string as `readFileSync(path, "utf8")`. Throws as it does. */
