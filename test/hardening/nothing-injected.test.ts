@@ -107,7 +107,17 @@ describe("hardening: nothing injected", function () {
         for (const { name, pattern } of CODE_FROM_STRING) if (pattern.test(code)) hits.push(`${file}:${i + 1}: ${name}: ${line.trim()}`);
       });
     }
-    assert.deepEqual(hits, []);
+    // The one exception: the CLI's loader runs our own bundle file (dist/cli-main.cjs, beside it) through
+    // vm.Script so that V8's code cache can be given (Node 20 has no other way); it is what `require` of
+    // that file does. Checked below: its source is read from that fixed path and nothing else.
+    const launcher = resolve("server/src/cli/launcher.ts");
+    const allowed = hits.filter((hit) => hit.startsWith(`${launcher}:`) && hit.includes("vm code execution: const run = script.runInThisContext()"));
+    assert.equal(allowed.length, 1, `the loader runs one script: ${hits.join("; ")}`);
+    assert.deepEqual(hits.filter((hit) => !allowed.includes(hit)), []);
+    const loader = readFileSync(launcher, "utf8");
+    assert.match(loader, /const source = readFileSync\(main, "utf8"\);/);
+    assert.match(loader, /new Script\(WRAPPER_HEAD \+ source \+ WRAPPER_TAIL,/);
+    assert.match(loader, /main: join\(directory, "cli-main\.cjs"\)/);
   });
 
   it("the scan itself finds each forbidden form (so it cannot pass by accident)", () => {

@@ -1,7 +1,8 @@
 import type { Span } from "../../../grammar/src/ast.js";
 import { centerDecimalColumn, decimalValue } from "../stats/decimal/center-decimals.js";
 import { fitLinearModel } from "../stats/linear-model/fit-linear-model.js";
-import { groupMeansOfGroupings } from "../stats/linear-model/group-means.js";
+import type { SummarizedGroups } from "../stats/comparisons/group-summary.js";
+import { groupStatisticsOfGroupings } from "../stats/linear-model/group-means.js";
 import type { LinearModelInput, LinearModelResult, ModelFactor, ModelTerm } from "../stats/linear-model/types.js";
 import { type Design, type DesignRuns, type DesignTerm, ValueStatus } from "./design.js";
 import { covariateText, responseSpan, responseText, runId } from "./design-runs.js";
@@ -31,6 +32,12 @@ export interface ResponseContext {
   readonly offset: number;
   /** Compact level codes (per observation) and the declared level index of each code, for a factor index. */
   readonly levelsOf: (factor: number) => { readonly codes: Int32Array; readonly levels: readonly number[] } | undefined;
+  /**
+   * Group summaries the level means already formed from `y` in the same two passes, by factor list ("2" for
+   * factor 2's levels, "0,2" for the cells of factors 0 and 2; the group of a cell is level of 0 x levels of
+   * 2 + level of 2). The comparisons take theirs from here when present (the same numbers, bit for bit).
+   */
+  readonly knownGroups?: ReadonlyMap<string, SummarizedGroups>;
   /** The exact input the linear model was fitted on. */
   readonly input: LinearModelInput;
   /** The design terms in the fit (terms that could not be estimated are left out). */
@@ -178,7 +185,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const fit = fitLinearModel({ y: centred.values, factors: modelFactors, covariates, terms: modelTerms, ssType: settings.ssType });
   if (!fit.ok) {
     diagnostics.push(diagnostic(fit.code === "zero-variance" ? "zero-variance" : fit.code === "single-observation" ? "single-observation" : "no-data", anchors.response, `'${response.name}' cannot be analysed. ${fit.reason}`));
-    return { result: { ...empty, means: rawMeans(design, meanFactors, compact, centred.values, offset, null, settings.confidence) }, diagnostics };
+    return { result: { ...empty, means: rawMeans(design, meanFactors, compact, centred.values, offset, null, settings.confidence).means }, diagnostics };
   }
 
   for (const a of fit.aliased) {
@@ -203,7 +210,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     { source: "Total", df: fit.total.df, ss: fit.total.ss },
   ];
   const pooled = { ms: fit.residual.ms, df: fit.residual.df };
-  const means = rawMeans(design, meanFactors, compact, centred.values, offset, pooled, settings.confidence);
+  const { means, groups: knownGroups } = rawMeans(design, meanFactors, compact, centred.values, offset, pooled, settings.confidence);
   for (const m of means) {
     if (m.n !== 1 || m.term.includes(" x ")) continue;
     const factor = design.factors.find((f) => f.name === m.term);
@@ -249,6 +256,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     y: centred.values,
     offset,
     levelsOf: (factor) => compact.get(factor),
+    knownGroups,
     input: { y: centred.values, factors: modelFactors, covariates, terms: modelTerms, ssType: settings.ssType },
     modelTerms: terms,
     fit,
@@ -350,15 +358,16 @@ function rawMeans(
   offset: number,
   pooled: { ms: number | null; df: number } | null,
   confidence: number,
-): LevelMean[] {
+): { means: LevelMean[]; groups: Map<string, SummarizedGroups> } {
   const error = pooled ?? { ms: null, df: 0 };
   // Every grouping is collected first and summarised in one fused pair of passes over y
   // (groupMeansOfGroupings, bit-identical to one groupMeans per grouping), then emitted in this order.
-  const groupings: { term: string; labels: readonly string[]; codes: Int32Array; groupCount: number; within?: { codes: Int32Array; levelCount: number } }[] = [];
+  // `key` is the grouping's factor list as the comparisons name it (ResponseContext.knownGroups).
+  const groupings: { key: string; term: string; labels: readonly string[]; codes: Int32Array; groupCount: number; within?: { codes: Int32Array; levelCount: number } }[] = [];
   for (const f of meanFactors) {
     const c = compact.get(f)!;
     const labels = c.levels.map((l) => design.factors[f]!.levels[l]!.name);
-    groupings.push({ term: design.factors[f]!.name, labels, codes: c.codes, groupCount: labels.length });
+    groupings.push({ key: String(f), term: design.factors[f]!.name, labels, codes: c.codes, groupCount: labels.length });
   }
   const fixed = meanFactors.filter((f) => design.factors[f]!.role === "fixed");
   for (let i = 0; i < fixed.length; i++) {
@@ -368,10 +377,18 @@ function rawMeans(
       const labels: string[] = [];
       for (const la of a.levels) for (const lb of b.levels) labels.push(`${design.factors[fixed[i]!]!.levels[la]!.name} x ${design.factors[fixed[j]!]!.levels[lb]!.name}`);
       // Cell codes a * |b| + b are formed as the observations are read (no third array of codes).
-      groupings.push({ term: `${design.factors[fixed[i]!]!.name} x ${design.factors[fixed[j]!]!.name}`, labels, codes: a.codes, groupCount: labels.length, within: { codes: b.codes, levelCount: b.levels.length } });
+      groupings.push({
+        key: `${fixed[i]!},${fixed[j]!}`,
+        term: `${design.factors[fixed[i]!]!.name} x ${design.factors[fixed[j]!]!.name}`,
+        labels,
+        codes: a.codes,
+        groupCount: labels.length,
+        within: { codes: b.codes, levelCount: b.levels.length },
+      });
     }
   }
-  const summaries = groupMeansOfGroupings(y, groupings, error, confidence);
+  const { means: summaries, summarized } = groupStatisticsOfGroupings(y, groupings, error, confidence);
+  const groups = new Map(groupings.map((g, q) => [g.key, summarized[q]!] as const));
   const out: LevelMean[] = [];
   groupings.forEach(({ term, labels }, q) => {
     for (const g of summaries[q]!) {
@@ -387,7 +404,7 @@ function rawMeans(
       });
     }
   });
-  return out;
+  return { means: out, groups };
 }
 
 function adjustedMeans(

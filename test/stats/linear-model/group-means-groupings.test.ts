@@ -6,7 +6,8 @@
 import assert from "node:assert/strict";
 import fc from "fast-check";
 
-import { cellCodes, groupMeans, groupMeansOfGroupings } from "../../../server/src/stats/linear-model/group-means.js";
+import { summarizeGroupsWithSums } from "../../../server/src/stats/comparisons/group-summary.js";
+import { cellCodes, groupMeans, groupMeansOfGroupings, groupStatisticsOfGroupings } from "../../../server/src/stats/linear-model/group-means.js";
 
 const data = fc.integer({ min: 1, max: 60 }).chain((n) =>
   fc.record({
@@ -75,6 +76,41 @@ describe("groupMeansOfGroupings", () => {
             for (const key of ["group", "n", "mean", "sd", "lower", "upper"] as const) assert.ok(Object.is(g[key], h[key]), `grouping ${q} group ${k} ${key}: ${g[key]} vs ${h[key]}`);
           });
         });
+      }),
+      { numRuns: 1000 },
+    );
+  });
+
+  it("gives the comparisons' group summaries and sums, equal to summarizeGroupsWithSums bit for bit, fused and separate (property test)", () => {
+    fc.assert(
+      fc.property(data, ({ y, a, b, ms, df }) => {
+        const values = Float64Array.from(y);
+        const aCodes = Int32Array.from(a);
+        const bCodes = Int32Array.from(b);
+        const cells = cellCodes([
+          { levelCount: 4, codes: aCodes },
+          { levelCount: 3, codes: bCodes },
+        ]);
+        const three = [
+          { codes: aCodes, groupCount: 4 },
+          { codes: bCodes, groupCount: 3 },
+          { codes: aCodes, groupCount: 12, within: { codes: bCodes, levelCount: 3 } },
+        ];
+        const reference = [summarizeGroupsWithSums(values, aCodes, 4), summarizeGroupsWithSums(values, bCodes, 3), summarizeGroupsWithSums(values, cells.codes, cells.count)];
+        // Three groupings take the fused passes; a fourth sends them all through the separate ones.
+        for (const groupings of [three, [...three, { codes: aCodes, groupCount: 4 }]]) {
+          const { summarized } = groupStatisticsOfGroupings(values, groupings, { ms, df }, 0.9);
+          reference.forEach((expected, q) => {
+            const got = summarized[q]!;
+            assert.equal(got.summaries.length, expected.summaries.length);
+            got.summaries.forEach((g, k) => {
+              const h = expected.summaries[k]!;
+              for (const key of ["n", "mean", "variance"] as const) assert.ok(Object.is(g[key], h[key]), `grouping ${q} group ${k} ${key}: ${g[key]} vs ${h[key]}`);
+            });
+            assert.deepEqual(Array.from(got.sums), Array.from(expected.sums));
+            got.sums.forEach((v, k) => assert.ok(Object.is(v, expected.sums[k]), `grouping ${q} sum ${k}`));
+          });
+        }
       }),
       { numRuns: 1000 },
     );

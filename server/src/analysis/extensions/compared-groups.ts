@@ -78,13 +78,20 @@ export function prepareGroups(context: ResponseContext, lists: readonly (readonl
     if (shape) pending.push({ key, shape });
     else cache.set(key, undefined);
   }
-  if (pending.length === 0) return;
+  // Groups whose summaries the level means already formed (same observations and groups) are not read again.
+  const toSummarise: typeof pending = [];
+  for (const p of pending) {
+    const known = context.knownGroups?.get(p.key);
+    if (known && known.summaries.length === p.shape.labels.length) cache.set(p.key, { ...p.shape, ...known });
+    else toSummarise.push(p);
+  }
+  if (toSummarise.length === 0) return;
   const summarised = summarizeGroupings(
     context.y,
-    pending.map((p) => p.shape.codes),
-    pending.map((p) => p.shape.labels.length),
+    toSummarise.map((p) => p.shape.codes),
+    toSummarise.map((p) => p.shape.labels.length),
   );
-  pending.forEach((p, j) => cache.set(p.key, { ...p.shape, ...summarised[j]! }));
+  toSummarise.forEach((p, j) => cache.set(p.key, { ...p.shape, ...summarised[j]! }));
 }
 
 /** Labels and codes of the groups crossing `factors` (undefined when a factor has no codes). */

@@ -133,6 +133,21 @@ function twoOrThree(
   return out;
 }
 
+/** A grouping's summaries and its groups' plain sums (what `summarizeGroupsWithSums` returns). */
+export interface SummarizedGroups {
+  readonly summaries: GroupSummary[];
+  readonly sums: Float64Array;
+}
+
+/**
+ * Summaries from the two passes' accumulators: per group the count, the first pass's mean (sum / n, 0 for
+ * an empty group), and the second pass's sum of squared deviations from it and sum of deviations. Other
+ * modules that run the same two passes (the level means) make the same summaries with it.
+ */
+export function summariesFromAccumulators(n: Float64Array, mean: Float64Array, ss: Float64Array, correction: Float64Array): GroupSummary[] {
+  return finish(n, mean, ss, correction);
+}
+
 /** Summaries from the two passes' accumulators. */
 function finish(n: Float64Array, mean: Float64Array, ss: Float64Array, correction: Float64Array): GroupSummary[] {
   return Array.from({ length: n.length }, (_, g) => {

@@ -8,6 +8,7 @@
  * over the data so that the rounding error does not grow with the group size.
  */
 
+import { type SummarizedGroups, summariesFromAccumulators } from "../comparisons/group-summary.js";
 import { tQuantile } from "../distributions/t-distribution.js";
 
 /** Statistics of one group; mean and interval are null for an empty group, SD null for n < 2. */
@@ -58,24 +59,40 @@ export interface Grouping {
  * (each group's sums accumulated in observation order); the interval's t quantile is computed once.
  */
 export function groupMeansOfGroupings(y: Float64Array, groupings: readonly Grouping[], pooled: PooledError, confidence = 0.95): GroupMean[][] {
+  return groupStatisticsOfGroupings(y, groupings, pooled, confidence).means;
+}
+
+/**
+ * {@link groupMeansOfGroupings}, and per grouping the summaries the comparisons and variance checks start
+ * from (`summarizeGroupsWithSums` of the same observations and groups): both come from the same two
+ * passes, so a caller that needs both reads the observations once. A cell grouping's group is
+ * `codes * within.levelCount + within.codes`, as in the crossed codes of the comparisons.
+ */
+export function groupStatisticsOfGroupings(
+  y: Float64Array,
+  groupings: readonly Grouping[],
+  pooled: PooledError,
+  confidence = 0.95,
+): { means: GroupMean[][]; summarized: SummarizedGroups[] } {
   const k = groupings.length;
   // All groupings' accumulators in one array each, grouping q's groups from offsets[q].
   const offsets = new Int32Array(k + 1);
   for (let q = 0; q < k; q++) offsets[q + 1] = offsets[q]! + Math.max(0, groupings[q]!.groupCount);
   const total = offsets[k]!;
   const counts = new Float64Array(total);
+  const sums = new Float64Array(total);
   const means = new Float64Array(total);
   const corrections = new Float64Array(total);
   const squares = new Float64Array(total);
   const n = y.length;
   if (k <= 3 && groupings.every((g) => g.codes.length >= n && (g.within === undefined || g.within.codes.length >= n))) {
-    accumulateTogether(y, groupings, offsets, counts, means, corrections, squares);
+    accumulateTogether(y, groupings, offsets, counts, sums, means, corrections, squares);
   } else {
     for (let q = 0; q < k; q++) {
       const { codes, groupCount, within } = groupings[q]!;
       const from = offsets[q]!;
       const to = offsets[q + 1]!;
-      const cells = [counts.subarray(from, to), means.subarray(from, to), corrections.subarray(from, to), squares.subarray(from, to)] as const;
+      const cells = [counts.subarray(from, to), sums.subarray(from, to), means.subarray(from, to), corrections.subarray(from, to), squares.subarray(from, to)] as const;
       if (within) accumulateCells(y, codes, within.codes, within.levelCount, groupCount, ...cells);
       else accumulateGroups(y, codes, groupCount, ...cells);
     }
@@ -83,7 +100,7 @@ export function groupMeansOfGroupings(y: Float64Array, groupings: readonly Group
   const usable =
     pooled.ms !== null && Number.isFinite(pooled.ms) && pooled.ms >= 0 && pooled.df > 0 && confidence > 0 && confidence < 1;
   const t = usable ? tQuantile(1 - (1 - confidence) / 2, pooled.df) : Number.NaN;
-  return groupings.map((grouping, q) => {
+  const meansOut = groupings.map((grouping, q) => {
     const out: GroupMean[] = [];
     for (let g = 0; g < grouping.groupCount; g++) {
       const at = offsets[q]! + g;
@@ -101,6 +118,15 @@ export function groupMeansOfGroupings(y: Float64Array, groupings: readonly Group
     }
     return out;
   });
+  const summarized = groupings.map((_, q) => {
+    const from = offsets[q]!;
+    const to = offsets[q + 1]!;
+    return {
+      summaries: summariesFromAccumulators(counts.subarray(from, to), means.subarray(from, to), squares.subarray(from, to), corrections.subarray(from, to)),
+      sums: sums.slice(from, to),
+    };
+  });
+  return { means: meansOut, summarized };
 }
 
 /**
@@ -116,6 +142,7 @@ function accumulateTogether(
   groupings: readonly Grouping[],
   offsets: Int32Array,
   counts: Float64Array,
+  sums: Float64Array,
   means: Float64Array,
   corrections: Float64Array,
   squares: Float64Array,
@@ -139,7 +166,6 @@ function accumulateTogether(
   const f0 = p0.first, s0 = p0.second, r0 = p0.within ? p0.radix : 0, m0 = p0.within ? 1 : 0, z0 = p0.size, o0 = p0.offset;
   const f1 = p1.first, s1 = p1.second, r1 = p1.within ? p1.radix : 0, m1 = p1.within ? 1 : 0, z1 = p1.size, o1 = p1.offset;
   const f2 = p2.first, s2 = p2.second, r2 = p2.within ? p2.radix : 0, m2 = p2.within ? 1 : 0, z2 = p2.size, o2 = p2.offset;
-  const sums = new Float64Array(offsets[groupings.length]!);
   // Group of observation i in a grouping: first * radix + second for cells of two factors (m = 1), else
   // first (m = 0; first + 0 * second). Absent groupings have size 0 and are skipped before any read.
   for (let i = 0; i < n; i++) {
@@ -205,11 +231,11 @@ function accumulateGroups(
   codes: Int32Array,
   groupCount: number,
   counts: Float64Array,
+  sums: Float64Array,
   means: Float64Array,
   corrections: Float64Array,
   squares: Float64Array,
 ): void {
-  const sums = new Float64Array(Math.max(0, groupCount));
   const m = Math.min(y.length, codes.length);
   for (let i = 0; i < m; i++) {
     const g = codes[i]!;
@@ -235,11 +261,11 @@ function accumulateCells(
   levelCount: number,
   groupCount: number,
   counts: Float64Array,
+  sums: Float64Array,
   means: Float64Array,
   corrections: Float64Array,
   squares: Float64Array,
 ): void {
-  const sums = new Float64Array(Math.max(0, groupCount));
   const m = Math.min(y.length, first.length, second.length);
   for (let i = 0; i < m; i++) {
     const g = first[i]! * levelCount + second[i]!;
