@@ -1,5 +1,6 @@
-// Bundles the entry points into dist/ and makes the CLI's code cache. The root package is ESM ("type": "module"), so the
-// bundles are CommonJS files with a .cjs extension: VS Code's extension host loads them with require().
+// Bundles the entry points into dist/ and makes the CLI's code cache. The root package is ESM ("type":
+// "module"), so the bundles are CommonJS files with a .cjs extension: VS Code's extension host loads them
+// with require().
 import { spawnSync } from "node:child_process";
 import { rmSync } from "node:fs";
 import { build } from "esbuild";

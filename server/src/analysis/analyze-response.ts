@@ -361,8 +361,9 @@ function rawMeans(
 ): { means: LevelMean[]; groups: Map<string, SummarizedGroups> } {
   const error = pooled ?? { ms: null, df: 0 };
   // Every grouping is collected first and summarised in one fused pair of passes over y
-  // (groupMeansOfGroupings, bit-identical to one groupMeans per grouping), then emitted in this order.
-  // `key` is the grouping's factor list as the comparisons name it (ResponseContext.knownGroups).
+  // (groupStatisticsOfGroupings, bit-identical to one groupMeans per grouping), then emitted in this order.
+  // The same passes give the comparisons' group summaries, handed on under `key`, the grouping's factor
+  // list as the comparisons name it (ResponseContext.knownGroups).
   const groupings: { key: string; term: string; labels: readonly string[]; codes: Int32Array; groupCount: number; within?: { codes: Int32Array; levelCount: number } }[] = [];
   for (const f of meanFactors) {
     const c = compact.get(f)!;

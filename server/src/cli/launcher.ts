@@ -13,7 +13,7 @@
  * damaged cache costs only the time it would have saved. `TRIALBOOK_DEBUG_CODE_CACHE=1` says on stderr
  * whether the cache was used.
  */
-import { existsSync, readFileSync, writeFileSync } from "node:fs";
+import { readFileSync, writeFileSync } from "node:fs";
 import { createRequire } from "node:module";
 import { dirname, join } from "node:path";
 import { Script } from "node:vm";
@@ -21,6 +21,15 @@ import { Script } from "node:vm";
 /** The CLI bundle and its code cache, beside this launcher. */
 export function launchPaths(directory: string): { readonly main: string; readonly cache: string } {
   return { main: join(directory, "cli-main.cjs"), cache: join(directory, "cli-main.code-cache") };
+}
+
+/** The cache's bytes, or undefined when there is none or it cannot be read (the bundle then compiles as usual). */
+function readCache(path: string): Buffer | undefined {
+  try {
+    return readFileSync(path);
+  } catch {
+    return undefined;
+  }
 }
 
 /** Node's CommonJS wrapper: the bundle sees the same five bindings as a module loaded by `require`. */
@@ -31,7 +40,7 @@ const WRAPPER_TAIL = "\n});";
 export function launch(directory: string, env: NodeJS.ProcessEnv): void {
   const { main, cache } = launchPaths(directory);
   const source = readFileSync(main, "utf8");
-  const cachedData = existsSync(cache) ? readFileSync(cache) : undefined;
+  const cachedData = readCache(cache);
   const script = new Script(WRAPPER_HEAD + source + WRAPPER_TAIL, {
     filename: main,
     ...(cachedData ? { cachedData } : {}),
