@@ -253,7 +253,7 @@ export function exerciseText(text: string, probe: Probe, options: { readonly fit
   assertDiagnosticsInside(analysis.diagnostics, n, "analyzeDocument");
   assertFiniteDeep(analysis.responses, "responses");
   assertFiniteDeep(analysis.design, "analysis.design");
-  const doc: AnalyzedDocument = { uri: URI, version: 1, text, lineIndex: new LineIndex(text), analysis };
+  const doc: AnalyzedDocument = { uri: URI, version: 1, text, lineIndex: new LineIndex(text), file: analysis.file, analysis };
   const index = doc.lineIndex;
   const clean = (output: unknown, what: string) => {
     assertFiniteDeep(output, what);

@@ -65,7 +65,7 @@ function missing(a: readonly string[], b: readonly string[]): string[] {
 function structural(text: string): AnalyzedDocument {
   const file: TrialFile = parseTrial(text);
   const { design, diagnostics } = buildDesign(file);
-  return { uri: URI, version: 1, text, lineIndex: new LineIndex(text), analysis: { file, design, diagnostics: [...diagnostics], responses: [] } };
+  return { uri: URI, version: 1, text, lineIndex: new LineIndex(text), file, analysis: { file, design, diagnostics: [...diagnostics], responses: [] } };
 }
 
 describe("hardening: nothing lost", function () {

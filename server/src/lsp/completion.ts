@@ -60,7 +60,7 @@ export const SNIPPETS: Record<string, { label: string; body: string; plain: stri
 
 /** Completion items at `position`. */
 export function completion(doc: AnalyzedDocument, position: Position, caps: CompletionCapabilities): CompletionItem[] {
-  const { file } = doc.analysis;
+  const { file } = doc;
   const offset = positionToOffset(doc.lineIndex, position);
   const lineStart = offset - position.character;
   const prefix = doc.text.slice(lineStart, offset);

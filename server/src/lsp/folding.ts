@@ -7,7 +7,7 @@ import type { AnalyzedDocument } from "./documents.js";
 
 /** The folding ranges of a document, by start line. */
 export function foldingRanges(doc: AnalyzedDocument): FoldingRange[] {
-  const { file } = doc.analysis;
+  const { file } = doc;
   const out: FoldingRange[] = [];
   for (const d of file.declarations) {
     const start = doc.lineIndex.positionAt(d.span.start).line;

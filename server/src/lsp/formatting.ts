@@ -20,12 +20,12 @@ export interface OffsetEdit {
 
 /** Edits formatting the whole document. */
 export function formatDocument(doc: AnalyzedDocument, _options?: FormattingOptions): TextEdit[] {
-  return toTextEdits(doc, formattingEdits(doc.analysis.file, doc.lineIndex));
+  return toTextEdits(doc, formattingEdits(doc.file, doc.lineIndex));
 }
 
 /** Edits formatting the lines that intersect `range`. */
 export function formatRange(doc: AnalyzedDocument, range: Range, _options?: FormattingOptions): TextEdit[] {
-  return toTextEdits(doc, formattingEdits(doc.analysis.file, doc.lineIndex, rangeToSpan(doc.lineIndex, range)));
+  return toTextEdits(doc, formattingEdits(doc.file, doc.lineIndex, rangeToSpan(doc.lineIndex, range)));
 }
 
 function toTextEdits(doc: AnalyzedDocument, edits: readonly OffsetEdit[]): TextEdit[] {

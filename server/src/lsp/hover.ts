@@ -15,7 +15,7 @@ import type { AnalyzedDocument } from "./documents.js";
 
 /** The hover at `position`, or null where there is nothing to say. */
 export function hover(doc: AnalyzedDocument, position: Position): Hover | null {
-  const { file } = doc.analysis;
+  const { file } = doc;
   const found = symbolAt(file, positionToOffset(doc.lineIndex, position));
   if (!found) return null;
   let markdown: string | undefined;

@@ -12,7 +12,7 @@ import { invalidNameReason, nameToSource } from "./name-text.js";
 
 /** The range and current text of the renameable name at `position`, or null when there is none. */
 export function prepareRename(doc: AnalyzedDocument, position: Position): { range: Range; placeholder: string } | null {
-  const found = symbolAt(doc.analysis.file, positionToOffset(doc.lineIndex, position));
+  const found = symbolAt(doc.file, positionToOffset(doc.lineIndex, position));
   if (!found || found.kind !== "symbol") return null;
   if (found.key.kind === "level" && !isDeclaredLevel(doc, found.key)) return null;
   return { range: spanToRange(doc.lineIndex, found.span), placeholder: found.key.name };
@@ -20,7 +20,7 @@ export function prepareRename(doc: AnalyzedDocument, position: Position): { rang
 
 /** The edits renaming the name at `position` to `newName`, or an error saying why it cannot be done. */
 export function rename(doc: AnalyzedDocument, position: Position, newName: string): WorkspaceEdit | ResponseError<void> | null {
-  const { file } = doc.analysis;
+  const { file } = doc;
   const found = symbolAt(file, positionToOffset(doc.lineIndex, position));
   if (!found || found.kind !== "symbol") return null;
   const invalid = invalidNameReason(newName);
@@ -44,5 +44,5 @@ export function rename(doc: AnalyzedDocument, position: Position, newName: strin
 }
 
 function isDeclaredLevel(doc: AnalyzedDocument, key: SymbolKey & { kind: "level" }): boolean {
-  return doc.analysis.file.factors.some((f) => f.name?.text === key.factor && f.levels.some((l) => l.name.text === key.name));
+  return doc.file.factors.some((f) => f.name?.text === key.factor && f.levels.some((l) => l.name.text === key.name));
 }

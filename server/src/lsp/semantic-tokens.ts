@@ -33,7 +33,7 @@ export interface RawToken {
 /** The encoded tokens of a document, or of the lines intersecting `range`. */
 export function semanticTokens(doc: AnalyzedDocument, range?: Range): SemanticTokens {
   const limit = range ? rangeToSpan(doc.lineIndex, range) : undefined;
-  const tokens = collectTokens(doc.analysis.file).filter((t) => !limit || (t.span.end >= limit.start && t.span.start <= limit.end));
+  const tokens = collectTokens(doc.file).filter((t) => !limit || (t.span.end >= limit.start && t.span.start <= limit.end));
   const data: number[] = [];
   let prevLine = 0;
   let prevChar = 0;

@@ -9,7 +9,7 @@ import type { AnalyzedDocument } from "./documents.js";
 
 /** The outline of a document. */
 export function documentSymbols(doc: AnalyzedDocument): DocumentSymbol[] {
-  const { file } = doc.analysis;
+  const { file } = doc;
   const range = (span: Span) => spanToRange(doc.lineIndex, span);
   const symbol = (name: string, kind: SymbolKind, span: Span, selection: Span, detail?: string, children?: DocumentSymbol[]): DocumentSymbol => ({
     name: name === "" ? "(unnamed)" : name,
