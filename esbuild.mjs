@@ -52,6 +52,8 @@ await Promise.all([
   build({ ...common, entryPoints: ["extension/src/extension.ts"], outfile: "dist/extension.cjs", external: ["vscode"] }),
   build({ ...common, entryPoints: ["server/src/report/render-report.ts"], outfile: "dist/report.cjs" }),
   build({ ...common, entryPoints: ["server/src/lsp/main.ts"], outfile: "dist/server.cjs", plugins: [...common.plugins, separateReportRenderer] }),
+  // The server's analysis worker for large documents (server/src/lsp/analysis-worker.ts).
+  build({ ...common, entryPoints: ["server/src/lsp/analysis-worker.ts"], outfile: "dist/analysis-worker.cjs", plugins: [...common.plugins, separateReportRenderer] }),
   build({
     ...common,
     entryPoints: ["server/src/cli/main.ts"],

@@ -14,6 +14,8 @@ import type { DocumentAnalysis } from "../analysis/results.js";
 import type { TrialFile } from "../../../grammar/src/ast.js";
 import { type Connection, type Diagnostic as LspDiagnostic, TextDocuments } from "vscode-languageserver/node";
 import { TextDocument } from "vscode-languageserver-textdocument";
+import type { AnalysisWorker } from "./analysis-worker-client.js";
+import type { VersionSummary } from "./analysis-worker-protocol.js";
 import { toLspDiagnostics } from "./convert.js";
 import { type ServerSettings, toAnalysisDefaults } from "./settings.js";
 
@@ -65,8 +67,24 @@ export interface DocumentStoreSinks {
 
 /** Counters for tests and the benchmark: how much work was done and how much was abandoned. */
 export interface DocumentStoreStats {
+  /** Analyses on the server's main thread. */
   analyses: number;
+  /** Analyses of large documents in the worker thread. */
+  workerAnalyses: number;
   abandoned: number;
+}
+
+/**
+ * Documents of at least this many characters (about 30,000 runs) are analysed for publishing in the
+ * worker thread: their analysis takes a tenth of a second or more, which the main thread then spends
+ * answering requests instead.
+ */
+export const LARGE_DOCUMENT_CHARS = 1_000_000;
+
+/** The analysis worker and the size from which a document goes to it. */
+export interface LargeDocuments {
+  readonly worker: AnalysisWorker;
+  readonly minChars: number;
 }
 
 /**
@@ -78,13 +96,16 @@ export class DocumentStore {
   private readonly cache = new Map<string, AnalyzedDocument>();
   private readonly timers = new Map<string, { cancel(): void }>();
   /** Statistics since start; never reset. */
-  readonly stats: DocumentStoreStats = { analyses: 0, abandoned: 0 };
+  readonly stats: DocumentStoreStats = { analyses: 0, workerAnalyses: 0, abandoned: 0 };
+  /** Per large document, the worker's summary of one version (started or done). */
+  private readonly summaries = new Map<string, { readonly version: number; readonly summary: Promise<VersionSummary> }>();
   /** performance.now() of the last change to, or analysis of, an open document. */
   private lastActivity = Number.NEGATIVE_INFINITY;
 
   constructor(
     private readonly sinks: DocumentStoreSinks,
     private readonly settings: () => ServerSettings,
+    private readonly large?: LargeDocuments,
   ) {
     this.documents.onDidChangeContent((e) => this.schedule(e.document.uri));
     this.documents.onDidClose((e) => this.close(e.document.uri));
@@ -117,6 +138,32 @@ export class DocumentStore {
     });
   }
 
+  /**
+   * For a large document (see `LARGE_DOCUMENT_CHARS`), the worker's summary of its current version, asked for
+   * now if not yet: the diagnostics, code lenses and status without analysing on the main thread. Undefined
+   * for a small or closed document, or when the server has no worker.
+   */
+  summary(uri: string): Promise<VersionSummary> | undefined {
+    if (!this.large) return undefined;
+    const doc = this.documents.get(uri);
+    if (!doc) return undefined;
+    const known = this.summaries.get(uri);
+    if (known && known.version === doc.version) return known.summary;
+    const text = doc.getText();
+    if (text.length < this.large.minChars) return undefined;
+    this.lastActivity = performance.now();
+    const summary = this.large.worker.analyze({ uri, version: doc.version, text, defaults: toAnalysisDefaults(this.settings()) });
+    this.summaries.set(uri, { version: doc.version, summary });
+    summary.then(
+      () => this.stats.workerAnalyses++,
+      () => {
+        // Forgotten, so that the next request asks again (or the main thread analyses).
+        if (this.summaries.get(uri)?.summary === summary) this.summaries.delete(uri);
+      },
+    );
+    return summary;
+  }
+
   /** True when an open document changed or was analysed within the last `ms` milliseconds. */
   activeWithin(ms: number): boolean {
     return performance.now() - this.lastActivity < ms;
@@ -130,6 +177,7 @@ export class DocumentStore {
   /** Drops every cached analysis and re-analyses every open document (after a settings change). */
   reanalyzeAll(): void {
     this.cache.clear();
+    this.summaries.clear();
     for (const uri of this.uris()) this.schedule(uri);
   }
 
@@ -162,18 +210,51 @@ export class DocumentStore {
     return this.documents.get(uri)?.version === version;
   }
 
-  /**
-   * Parses, yields to the event loop (so that edits already waiting are applied first), then analyses
-   * and publishes, unless a newer version appeared in between: then the stale work is dropped.
-   */
+  /** The debounced analysis of a version: in the worker for a large document, else on this thread. */
   private runAnalysis(uri: string, version: number): void {
     try {
       const doc = this.documents.get(uri);
       if (!doc || doc.version !== version) return;
+      const summary = this.summary(uri);
+      if (summary) {
+        this.publishFromWorker(uri, version, summary);
+        return;
+      }
+      this.analyzeHere(uri, version, doc.getText());
+    } catch (error) {
+      this.sinks.logError(`analysis of ${uri} failed: ${describeError(error)}`);
+    }
+  }
+
+  /** Publishes a large document's diagnostics from the worker; if the worker fails, analyses here. */
+  private publishFromWorker(uri: string, version: number, summary: Promise<VersionSummary>): void {
+    summary.then(
+      (s) => {
+        if (!this.isCurrent(uri, version) || s.version !== version) {
+          this.stats.abandoned++;
+          return;
+        }
+        this.lastActivity = performance.now();
+        this.sinks.publish(uri, version, s.diagnostics);
+      },
+      (error: unknown) => {
+        this.sinks.logError(`the analysis worker failed for ${uri} (${describeError(error)}); analysing in the server instead`);
+        const doc = this.documents.get(uri);
+        if (doc && doc.version === version) this.analyzeHere(uri, version, doc.getText());
+      },
+    );
+  }
+
+  /**
+   * Parses, yields to the event loop (so that edits already waiting are applied first), then analyses
+   * and publishes, unless a newer version appeared in between: then the stale work is dropped.
+   */
+  private analyzeHere(uri: string, version: number, text: string): void {
+    try {
       let current = this.cache.get(uri);
       if (!current || current.version !== version) {
         // Parsed now and kept, so that a request arriving before the analysis reuses the parse.
-        current = this.parsedVersion(uri, version, doc.getText());
+        current = this.parsedVersion(uri, version, text);
         this.cache.set(uri, current);
       }
       const parsed = current;
@@ -207,6 +288,7 @@ export class DocumentStore {
   }
 
   private close(uri: string): void {
+    this.summaries.delete(uri);
     this.timers.get(uri)?.cancel();
     this.timers.delete(uri);
     this.cache.delete(uri);

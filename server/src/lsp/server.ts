@@ -20,7 +20,8 @@ import { VERSION } from "../version.js";
 import { codeActions } from "./code-actions.js";
 import { codeLenses } from "./code-lens.js";
 import { completion } from "./completion.js";
-import { type AnalyzedDocument, describeError, DocumentStore } from "./documents.js";
+import { type AnalyzedDocument, describeError, DocumentStore, LARGE_DOCUMENT_CHARS } from "./documents.js";
+import { AnalysisWorker } from "./analysis-worker-client.js";
 import { foldingRanges } from "./folding.js";
 import { formatDocument, formatRange } from "./formatting.js";
 import { hover } from "./hover.js";
@@ -74,15 +75,35 @@ export function createHandler<P extends { textDocument: { uri: string } }, R>(
   };
 }
 
+/** How the server log line begins that says the analysis worker thread was started. */
+export const WORKER_STARTED_LOG = "analysis worker thread started";
+
+/** How the server is set up beyond the connection. */
+export interface ServerOptions {
+  /**
+   * The analysis worker's script (dist/analysis-worker.cjs for the bundled server). Without it every
+   * document is analysed on the main thread.
+   */
+  readonly analysisWorker?: string | URL;
+  /** From how many characters a document is analysed in the worker (default `LARGE_DOCUMENT_CHARS`). */
+  readonly largeDocumentChars?: number;
+}
+
 /** Registers every handler on `connection`. Call `connection.listen()` afterwards. */
-export function createServer(connection: Connection): TrialbookServer {
+export function createServer(connection: Connection, options: ServerOptions = {}): TrialbookServer {
   let settings: ServerSettings = DEFAULT_SERVER_SETTINGS;
   let initialSettings: ServerSettings = DEFAULT_SERVER_SETTINGS;
   const features: ClientFeatures = { configuration: false, dynamicConfiguration: false, snippets: false, snippetEdits: false };
   const logError = (message: string) => connection.console.error(message);
+  const largeDocumentChars = options.largeDocumentChars ?? LARGE_DOCUMENT_CHARS;
+  const worker =
+    options.analysisWorker === undefined
+      ? undefined
+      : new AnalysisWorker(options.analysisWorker, () => connection.console.log(`${WORKER_STARTED_LOG} (documents of ${largeDocumentChars} characters or more)`));
   const store = new DocumentStore(
     { publish: (uri, version, diagnostics) => void connection.sendDiagnostics({ uri, ...(version !== undefined ? { version } : {}), diagnostics }), logError },
     () => settings,
+    worker ? { worker, minChars: largeDocumentChars } : undefined,
   );
 
   connection.onInitialize((params): InitializeResult => {
@@ -130,7 +151,10 @@ export function createServer(connection: Connection): TrialbookServer {
     // Said in the server log (the editor's output panel); the benchmark waits for this line.
     void started.done.then((s) => connection.console.log(`${WARM_UP_LOG_PREFIX} ${s.analyses} analyses, ${s.ms} ms`));
   });
-  connection.onShutdown(() => warmUp?.cancel());
+  connection.onShutdown(() => {
+    warmUp?.cancel();
+    worker?.dispose();
+  });
   connection.onDidChangeConfiguration((change) => {
     if (features.configuration) {
       void pullSettings();
@@ -145,7 +169,9 @@ export function createServer(connection: Connection): TrialbookServer {
     createHandler(name, store, logError, body);
 
   connection.onHover(handle("hover", (doc, p) => hover(doc, p.position)));
-  connection.onCodeLens(handle("codeLens", (doc) => codeLenses(doc)));
+  const codeLensHere = handle("codeLens", (doc) => codeLenses(doc));
+  // A large document's lenses come from the worker's summary; if the worker fails, from the main thread.
+  connection.onCodeLens((params, token) => store.summary(params.textDocument.uri)?.then((s) => s.lenses, () => codeLensHere(params, token)) ?? codeLensHere(params, token));
   connection.onCodeAction(handle("codeAction", (doc, p) => codeActions(doc, p, { snippetEdits: features.snippetEdits })));
   connection.onDocumentFormatting(handle("formatting", (doc, p) => formatDocument(doc, p.options)));
   connection.onDocumentRangeFormatting(handle("rangeFormatting", (doc, p) => formatRange(doc, p.range, p.options)));

@@ -1,24 +1,18 @@
 import type { Connection } from "vscode-languageserver/node";
-import { StatusRequest, type StatusResult } from "../protocol.js";
-import { reportTitle } from "../report/report-blocks.js";
-import { runProgress } from "../report/run-progress.js";
-import type { AnalyzedDocument } from "./documents.js";
+import { StatusRequest } from "../protocol.js";
 import type { RequestContext } from "./report-request.js";
 import { createHandler } from "./server.js";
+import { statusOf } from "./status-of.js";
+import type { VersionSummary } from "./analysis-worker-protocol.js";
 
-/** Run and diagnostic counts of one analysed document: what the status bar shows. */
-export function statusOf(doc: AnalyzedDocument): StatusResult {
-  const progress = runProgress(doc.analysis.design);
-  let errors = 0;
-  let warnings = 0;
-  for (const d of doc.analysis.diagnostics) {
-    if (d.severity === "error") errors++;
-    else if (d.severity === "warning") warnings++;
-  }
-  return { version: doc.version, title: reportTitle(doc.analysis), plannedRuns: progress.planned, doneRuns: progress.done, excludedRuns: progress.excluded, errors, warnings };
-}
+export { statusOf };
 
 /** Registers `trialbook/status` (see protocol.ts). */
-export function registerStatusRequest(connection: Connection, context: RequestContext): void {
-  connection.onRequest(StatusRequest, createHandler("trialbook/status", context.store, context.logError, (doc) => statusOf(doc)));
+export function registerStatusRequest(connection: Connection, context: RequestContext & { readonly store: { summary?(uri: string): Promise<VersionSummary> | undefined } }): void {
+  const here = createHandler("trialbook/status", context.store, context.logError, (doc) => statusOf(doc));
+  // A large document's status comes from the worker's summary; if the worker fails, from the main thread.
+  connection.onRequest(StatusRequest, (params, token) => {
+    const summary = typeof params?.textDocument?.uri === "string" ? context.store.summary?.(params.textDocument.uri) : undefined;
+    return summary ? summary.then((s) => s.status, () => here(params, token)) : here(params, token);
+  });
 }

@@ -1,0 +1,162 @@
+/**
+ * Large documents are analysed for publishing in the server's worker thread: the diagnostics, code lenses
+ * and status it sends back must be exactly those of the main thread's analysis of the same text
+ * (analyzeText, whose statistics the R and NIST tests check), and the main thread must not analyse. When
+ * the worker cannot run, the main thread analyses instead. In process over in-memory streams (the store's
+ * counters are read), with a small size limit; then the bundled server with a document above the real one.
+ */
+import assert from "node:assert/strict";
+import { PassThrough } from "node:stream";
+import { createMessageConnection, type MessageConnection, StreamMessageReader, StreamMessageWriter } from "vscode-jsonrpc/node";
+import { createConnection, type PublishDiagnosticsParams, ProposedFeatures } from "vscode-languageserver/node";
+import { codeLenses } from "../../server/src/lsp/code-lens.js";
+import { toLspDiagnostics } from "../../server/src/lsp/convert.js";
+import { analyzeText, LARGE_DOCUMENT_CHARS } from "../../server/src/lsp/documents.js";
+import { createServer, type ServerOptions, WORKER_STARTED_LOG } from "../../server/src/lsp/server.js";
+import { statusOf } from "../../server/src/lsp/status-of.js";
+import { registerTrialbookRequests } from "../../server/src/lsp/trialbook-requests.js";
+import { ensureServerBundle, ProtocolClient } from "./protocol-client.js";
+
+const URI = "file:///w/invented-press.trial";
+
+/** An invented press trial: two factors, a pending run, an out-of-spec value (so that there are diagnostics). */
+function pressTrial(runs: number, firstValue = "41.2"): string {
+  const lines = ["# Invented data for a test.", 'trial "Invented: press force"', "response force unit kN spec <= 48", "factor die levels d1, d2, d3", "factor lube levels dry, oiled", "runs id die lube | force"];
+  for (let i = 0; i < runs; i++) {
+    const value = i === 0 ? firstValue : i === 5 ? "?" : (40 + (i % 3) * 1.7 + ((i * 37) % 11) / 10 + (i % 7 === 3 ? 9 : 0)).toFixed(1);
+    lines.push(`  r${i + 1} d${(i % 3) + 1} ${i % 2 === 0 ? "dry" : "oiled"} | ${value}`);
+  }
+  return lines.join("\n") + "\n";
+}
+
+/** What the main thread would answer for `text`. */
+function expected(text: string, version: number) {
+  const doc = analyzeText(URI, version, text);
+  return { diagnostics: toLspDiagnostics(doc.analysis.diagnostics, doc.lineIndex, URI), lenses: codeLenses(doc), status: statusOf(doc) };
+}
+
+class InProcessServer {
+  readonly client: MessageConnection;
+  readonly server: ReturnType<typeof createServer>;
+  readonly logs: string[] = [];
+  private readonly streams = [new PassThrough(), new PassThrough()] as const;
+  private readonly waiters = new Map<number, (p: PublishDiagnosticsParams) => void>();
+
+  constructor(options: ServerOptions) {
+    const [toServer, toClient] = this.streams;
+    const connection = createConnection(ProposedFeatures.all, new StreamMessageReader(toServer), new StreamMessageWriter(toClient));
+    this.server = createServer(connection, options);
+    registerTrialbookRequests(connection, this.server);
+    connection.listen();
+    this.client = createMessageConnection(new StreamMessageReader(toClient), new StreamMessageWriter(toServer));
+    this.client.onNotification("window/logMessage", (p: { message: string }) => {
+      this.logs.push(p.message);
+    });
+    this.client.onNotification("textDocument/publishDiagnostics", (p: PublishDiagnosticsParams) => {
+      if (p.version !== undefined) this.waiters.get(p.version)?.(p);
+    });
+    this.client.listen();
+  }
+
+  async start(): Promise<void> {
+    await this.client.sendRequest("initialize", { processId: null, rootUri: null, initializationOptions: { trialbook: { analysisDelay: 0 } }, capabilities: {} });
+    await this.client.sendNotification("initialized", {});
+  }
+
+  published(version: number): Promise<PublishDiagnosticsParams> {
+    return new Promise((resolve) => this.waiters.set(version, resolve));
+  }
+
+  async stop(): Promise<void> {
+    await this.client.sendNotification("textDocument/didClose", { textDocument: { uri: URI } });
+    await this.client.sendRequest("shutdown", null);
+    this.client.dispose();
+    for (const s of this.streams) s.destroy();
+  }
+}
+
+describe("lsp: large documents are analysed in the worker thread", function () {
+  this.timeout(120_000);
+  const worker = new URL("../../server/src/lsp/analysis-worker.js", import.meta.url);
+
+  it("publishes the main thread's diagnostics and answers code lens and status from the worker, without analysing on the main thread", async () => {
+    const s = new InProcessServer({ analysisWorker: worker, largeDocumentChars: 500 });
+    try {
+      await s.start();
+      const text = pressTrial(60);
+      assert.ok(text.length >= 500);
+      assert.ok(!s.logs.some((l) => l.startsWith(WORKER_STARTED_LOG)), "no worker before a large document");
+      let published = s.published(1);
+      await s.client.sendNotification("textDocument/didOpen", { textDocument: { uri: URI, languageId: "trial", version: 1, text } });
+      const want = expected(text, 1);
+      assert.ok(want.diagnostics.length > 0, "the invented trial has diagnostics");
+      assert.deepEqual((await published).diagnostics, want.diagnostics);
+      assert.deepEqual(await s.client.sendRequest("textDocument/codeLens", { textDocument: { uri: URI } }), want.lenses);
+      assert.deepEqual(await s.client.sendRequest("trialbook/status", { textDocument: { uri: URI } }), want.status);
+
+      // An edit: the new version's diagnostics, still from the worker.
+      published = s.published(2);
+      await s.client.sendNotification("textDocument/didChange", {
+        textDocument: { uri: URI, version: 2 },
+        contentChanges: [{ range: { start: { line: 6, character: 14 }, end: { line: 6, character: 18 } }, text: "55.0" }],
+      });
+      const edited = pressTrial(60, "55.0");
+      assert.deepEqual((await published).diagnostics, expected(edited, 2).diagnostics);
+      assert.deepEqual(await s.client.sendRequest("textDocument/codeLens", { textDocument: { uri: URI } }), expected(edited, 2).lenses);
+      assert.equal(s.server.store.stats.analyses, 0, "nothing analysed on the main thread");
+      assert.equal(s.logs.filter((l) => l.startsWith(WORKER_STARTED_LOG)).length, 1, "one worker thread");
+      assert.ok(s.server.store.stats.workerAnalyses >= 2, `worker analyses: ${s.server.store.stats.workerAnalyses}`);
+    } finally {
+      await s.stop();
+    }
+  });
+
+  it("analyses a document below the size on the main thread", async () => {
+    const s = new InProcessServer({ analysisWorker: worker, largeDocumentChars: 1_000_000 });
+    try {
+      await s.start();
+      const text = pressTrial(12);
+      const published = s.published(1);
+      await s.client.sendNotification("textDocument/didOpen", { textDocument: { uri: URI, languageId: "trial", version: 1, text } });
+      assert.deepEqual((await published).diagnostics, expected(text, 1).diagnostics);
+      assert.equal(s.server.store.stats.analyses, 1);
+      assert.equal(s.server.store.stats.workerAnalyses, 0);
+    } finally {
+      await s.stop();
+    }
+  });
+
+  it("falls back to the main thread when the worker cannot start, and says so in the log", async () => {
+    const s = new InProcessServer({ analysisWorker: new URL("./no-such-worker.js", import.meta.url), largeDocumentChars: 500 });
+    try {
+      await s.start();
+      const text = pressTrial(60);
+      const published = s.published(1);
+      await s.client.sendNotification("textDocument/didOpen", { textDocument: { uri: URI, languageId: "trial", version: 1, text } });
+      assert.deepEqual((await published).diagnostics, expected(text, 1).diagnostics);
+      assert.equal(s.server.store.stats.analyses, 1, "analysed on the main thread instead");
+      assert.deepEqual(await s.client.sendRequest("textDocument/codeLens", { textDocument: { uri: URI } }), expected(text, 1).lenses);
+      assert.ok(s.logs.some((l) => l.includes("the analysis worker failed")), s.logs.join("\n"));
+    } finally {
+      await s.stop();
+    }
+  });
+
+  it("the bundled server (dist/server.cjs) analyses a document above LARGE_DOCUMENT_CHARS in its worker", async () => {
+    await ensureServerBundle();
+    const client = await ProtocolClient.start({ analysisDelay: 0 });
+    try {
+      const text = pressTrial(Math.ceil(LARGE_DOCUMENT_CHARS / 20));
+      assert.ok(text.length >= LARGE_DOCUMENT_CHARS, `${text.length} characters`);
+      const published = client.waitForDiagnostics(URI, (p) => p.version === 1, 60_000);
+      await client.notify("textDocument/didOpen", { textDocument: { uri: URI, languageId: "trial", version: 1, text } });
+      const want = expected(text, 1);
+      assert.deepEqual((await published).diagnostics, want.diagnostics);
+      assert.deepEqual(await client.request("textDocument/codeLens", { textDocument: { uri: URI } }), want.lenses);
+      assert.ok(!client.logs.some((l) => l.includes("the analysis worker failed")), client.logs.join("\n"));
+      assert.ok(client.logs.some((l) => l.startsWith(WORKER_STARTED_LOG)), `the worker was started: ${client.logs.join("\n")}`);
+    } finally {
+      await client.stop();
+    }
+  });
+});
