@@ -9,6 +9,7 @@ import assert from "node:assert/strict";
 import { PassThrough } from "node:stream";
 import { createMessageConnection, type MessageConnection, StreamMessageReader, StreamMessageWriter } from "vscode-jsonrpc/node";
 import { createConnection, type PublishDiagnosticsParams, ProposedFeatures } from "vscode-languageserver/node";
+import { AnalysisWorker, SupersededError } from "../../server/src/lsp/analysis-worker-client.js";
 import { codeLenses } from "../../server/src/lsp/code-lens.js";
 import { toLspDiagnostics } from "../../server/src/lsp/convert.js";
 import { analyzeText, LARGE_DOCUMENT_CHARS } from "../../server/src/lsp/documents.js";
@@ -108,6 +109,25 @@ describe("lsp: large documents are analysed in the worker thread", function () {
       assert.ok(s.server.store.stats.workerAnalyses >= 2, `worker analyses: ${s.server.store.stats.workerAnalyses}`);
     } finally {
       await s.stop();
+    }
+  });
+
+  it("runs one version at a time; a newer version of a document replaces a waiting older one", async () => {
+    const analyses = new AnalysisWorker(worker);
+    try {
+      const text = (v: number) => pressTrial(20, `4${v}.0`);
+      const first = analyses.analyze({ uri: URI, version: 1, text: text(1), defaults: {} });
+      const replaced = analyses.analyze({ uri: URI, version: 2, text: text(2), defaults: {} });
+      const other = analyses.analyze({ uri: "file:///w/other.trial", version: 1, text: text(9), defaults: {} });
+      const latest = analyses.analyze({ uri: URI, version: 3, text: text(3), defaults: {} });
+      await assert.rejects(replaced, SupersededError);
+      assert.equal((await first).version, 1, "the running version finishes");
+      assert.equal((await other).version, 1, "another document's waiting version is kept");
+      const summary = await latest;
+      assert.equal(summary.version, 3);
+      assert.deepEqual(summary.diagnostics, toLspDiagnostics(analyzeText(URI, 3, text(3)).analysis.diagnostics, analyzeText(URI, 3, text(3)).lineIndex, URI));
+    } finally {
+      analyses.dispose();
     }
   });
 

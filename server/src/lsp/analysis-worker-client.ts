@@ -1,16 +1,35 @@
 /**
  * The server's side of the analysis worker (analysis-worker.ts): one worker thread, started on first use,
- * that analyses versions of large documents in the order they are asked for. If the worker cannot start or
+ * that analyses one version at a time. Versions asked for meanwhile wait here, and a newer version of the
+ * same document replaces a waiting older one (whose request is rejected with `SupersededError`): typing in
+ * a very large file never queues up analyses of versions already gone. If the worker cannot start or
  * stops, every pending request is rejected and the next one starts a new worker; the document store then
  * analyses on the main thread as for a small document.
  */
 import { Worker } from "node:worker_threads";
 import type { VersionSummary, WorkerJob, WorkerReply } from "./analysis-worker-protocol.js";
 
+/** The request was for a version that a newer one of the same document replaced before it started. */
+export class SupersededError extends Error {
+  constructor(uri: string, version: number) {
+    super(`version ${version} of ${uri} was replaced by a newer one before its analysis started`);
+    this.name = "SupersededError";
+  }
+}
+
+interface Pending {
+  readonly job: WorkerJob;
+  resolve(summary: VersionSummary): void;
+  reject(error: Error): void;
+}
+
 export class AnalysisWorker {
   private worker: Worker | undefined;
   private nextId = 1;
-  private readonly waiting = new Map<number, { resolve(summary: VersionSummary): void; reject(error: Error): void }>();
+  /** The job the worker is analysing, if any. */
+  private running: Pending | undefined;
+  /** Jobs not yet sent, in the order asked, at most one per document. */
+  private queued: Pending[] = [];
 
   /**
    * `script`: the worker's file (dist/analysis-worker.cjs beside the server bundle, or the compiled module in
@@ -24,14 +43,13 @@ export class AnalysisWorker {
   /** The summary of one version, computed in the worker. */
   analyze(job: Omit<WorkerJob, "id">): Promise<VersionSummary> {
     return new Promise((resolve, reject) => {
-      try {
-        const worker = this.started();
-        const id = this.nextId++;
-        this.waiting.set(id, { resolve, reject });
-        worker.postMessage({ ...job, id } satisfies WorkerJob);
-      } catch (error) {
-        reject(error instanceof Error ? error : new Error(String(error)));
+      const older = this.queued.find((p) => p.job.uri === job.uri);
+      if (older) {
+        this.queued = this.queued.filter((p) => p !== older);
+        older.reject(new SupersededError(older.job.uri, older.job.version));
       }
+      this.queued.push({ job: { ...job, id: this.nextId++ }, resolve, reject });
+      this.sendNext();
     });
   }
 
@@ -42,15 +60,30 @@ export class AnalysisWorker {
     void worker?.terminate();
   }
 
+  /** Sends the oldest waiting job when the worker is free. */
+  private sendNext(): void {
+    if (this.running || this.queued.length === 0) return;
+    const next = this.queued.shift()!;
+    try {
+      const worker = this.started();
+      this.running = next;
+      worker.postMessage(next.job);
+    } catch (error) {
+      next.reject(error instanceof Error ? error : new Error(String(error)));
+      this.sendNext();
+    }
+  }
+
   private started(): Worker {
     if (this.worker) return this.worker;
     const worker = new Worker(this.script);
     worker.on("message", (reply: WorkerReply) => {
-      const waiter = this.waiting.get(reply.id);
-      if (!waiter) return;
-      this.waiting.delete(reply.id);
-      if (reply.ok) waiter.resolve(reply.summary);
-      else waiter.reject(new Error(reply.error));
+      const done = this.running;
+      if (!done || done.job.id !== reply.id) return;
+      this.running = undefined;
+      if (reply.ok) done.resolve(reply.summary);
+      else done.reject(new Error(reply.error));
+      this.sendNext();
     });
     worker.on("error", (error) => this.fail(error));
     worker.on("exit", (code) => {
@@ -65,8 +98,9 @@ export class AnalysisWorker {
 
   private fail(error: Error): void {
     this.worker = undefined;
-    const waiting = [...this.waiting.values()];
-    this.waiting.clear();
-    for (const w of waiting) w.reject(error);
+    const pending = [...(this.running ? [this.running] : []), ...this.queued];
+    this.running = undefined;
+    this.queued = [];
+    for (const p of pending) p.reject(error);
   }
 }

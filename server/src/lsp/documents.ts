@@ -14,7 +14,7 @@ import type { DocumentAnalysis } from "../analysis/results.js";
 import type { TrialFile } from "../../../grammar/src/ast.js";
 import { type Connection, type Diagnostic as LspDiagnostic, TextDocuments } from "vscode-languageserver/node";
 import { TextDocument } from "vscode-languageserver-textdocument";
-import type { AnalysisWorker } from "./analysis-worker-client.js";
+import { type AnalysisWorker, SupersededError } from "./analysis-worker-client.js";
 import type { VersionSummary } from "./analysis-worker-protocol.js";
 import { toLspDiagnostics } from "./convert.js";
 import { type ServerSettings, toAnalysisDefaults } from "./settings.js";
@@ -238,6 +238,10 @@ export class DocumentStore {
         this.sinks.publish(uri, version, s.diagnostics);
       },
       (error: unknown) => {
+        if (error instanceof SupersededError) {
+          this.stats.abandoned++;
+          return;
+        }
         this.sinks.logError(`the analysis worker failed for ${uri} (${describeError(error)}); analysing in the server instead`);
         const doc = this.documents.get(uri);
         if (doc && doc.version === version) this.analyzeHere(uri, version, doc.getText());

@@ -21,7 +21,7 @@ import { codeActions } from "./code-actions.js";
 import { codeLenses } from "./code-lens.js";
 import { completion } from "./completion.js";
 import { type AnalyzedDocument, describeError, DocumentStore, LARGE_DOCUMENT_CHARS } from "./documents.js";
-import { AnalysisWorker } from "./analysis-worker-client.js";
+import { AnalysisWorker, SupersededError } from "./analysis-worker-client.js";
 import { foldingRanges } from "./folding.js";
 import { formatDocument, formatRange } from "./formatting.js";
 import { hover } from "./hover.js";
@@ -171,7 +171,14 @@ export function createServer(connection: Connection, options: ServerOptions = {}
   connection.onHover(handle("hover", (doc, p) => hover(doc, p.position)));
   const codeLensHere = handle("codeLens", (doc) => codeLenses(doc));
   // A large document's lenses come from the worker's summary; if the worker fails, from the main thread.
-  connection.onCodeLens((params, token) => store.summary(params.textDocument.uri)?.then((s) => s.lenses, () => codeLensHere(params, token)) ?? codeLensHere(params, token));
+  // A request for a version replaced before its analysis started gets no lenses (the editor asks again).
+  connection.onCodeLens(
+    (params, token) =>
+      store.summary(params.textDocument.uri)?.then(
+        (s) => s.lenses,
+        (error: unknown) => (error instanceof SupersededError ? null : codeLensHere(params, token)),
+      ) ?? codeLensHere(params, token),
+  );
   connection.onCodeAction(handle("codeAction", (doc, p) => codeActions(doc, p, { snippetEdits: features.snippetEdits })));
   connection.onDocumentFormatting(handle("formatting", (doc, p) => formatDocument(doc, p.options)));
   connection.onDocumentRangeFormatting(handle("rangeFormatting", (doc, p) => formatRange(doc, p.range, p.options)));

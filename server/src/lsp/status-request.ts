@@ -3,6 +3,7 @@ import { StatusRequest } from "../protocol.js";
 import type { RequestContext } from "./report-request.js";
 import { createHandler } from "./server.js";
 import { statusOf } from "./status-of.js";
+import { SupersededError } from "./analysis-worker-client.js";
 import type { VersionSummary } from "./analysis-worker-protocol.js";
 
 export { statusOf };
@@ -13,6 +14,6 @@ export function registerStatusRequest(connection: Connection, context: RequestCo
   // A large document's status comes from the worker's summary; if the worker fails, from the main thread.
   connection.onRequest(StatusRequest, (params, token) => {
     const summary = typeof params?.textDocument?.uri === "string" ? context.store.summary?.(params.textDocument.uri) : undefined;
-    return summary ? summary.then((s) => s.status, () => here(params, token)) : here(params, token);
+    return summary ? summary.then((s) => s.status, (error: unknown) => (error instanceof SupersededError ? null : here(params, token))) : here(params, token);
   });
 }
