@@ -157,6 +157,16 @@ describe("lsp: large documents are analysed in the worker thread", function () {
       assert.equal(s.server.store.stats.analyses, 1, "analysed on the main thread instead");
       assert.deepEqual(await s.client.sendRequest("textDocument/codeLens", { textDocument: { uri: URI } }), expected(text, 1).lenses);
       assert.ok(s.logs.some((l) => l.includes("the analysis worker failed")), s.logs.join("\n"));
+      // After two workers stopped without answering, no more are started: later versions go straight to the main thread.
+      for (const version of [2, 3, 4]) {
+        const next = s.published(version);
+        await s.client.sendNotification("textDocument/didChange", {
+          textDocument: { uri: URI, version },
+          contentChanges: [{ range: { start: { line: 6, character: 14 }, end: { line: 6, character: 18 } }, text: `4${version}.5` }],
+        });
+        assert.deepEqual((await next).diagnostics, expected(pressTrial(60, `4${version}.5`), version).diagnostics);
+      }
+      assert.ok(s.logs.filter((l) => l.startsWith(WORKER_STARTED_LOG)).length <= 2, s.logs.join("\n"));
     } finally {
       await s.stop();
     }

@@ -30,6 +30,9 @@ export class AnalysisWorker {
   private running: Pending | undefined;
   /** Jobs not yet sent, in the order asked, at most one per document. */
   private queued: Pending[] = [];
+  /** Workers that stopped in a row without answering; after two, no more are started (a broken install). */
+  private failuresInARow = 0;
+  private broken: Error | undefined;
 
   /**
    * `script`: the worker's file (dist/analysis-worker.cjs beside the server bundle, or the compiled module in
@@ -42,6 +45,7 @@ export class AnalysisWorker {
 
   /** The summary of one version, computed in the worker. */
   analyze(job: Omit<WorkerJob, "id">): Promise<VersionSummary> {
+    if (this.broken) return Promise.reject(this.broken);
     return new Promise((resolve, reject) => {
       const older = this.queued.find((p) => p.job.uri === job.uri);
       if (older) {
@@ -56,6 +60,7 @@ export class AnalysisWorker {
   /** Stops the worker; pending requests are rejected. */
   dispose(): void {
     const worker = this.worker;
+    this.worker = undefined;
     this.fail(new Error("the analysis worker was stopped"));
     void worker?.terminate();
   }
@@ -81,6 +86,7 @@ export class AnalysisWorker {
       const done = this.running;
       if (!done || done.job.id !== reply.id) return;
       this.running = undefined;
+      this.failuresInARow = 0;
       if (reply.ok) done.resolve(reply.summary);
       else done.reject(new Error(reply.error));
       this.sendNext();
@@ -97,6 +103,7 @@ export class AnalysisWorker {
   }
 
   private fail(error: Error): void {
+    if (this.worker && ++this.failuresInARow >= 2) this.broken = error;
     this.worker = undefined;
     const pending = [...(this.running ? [this.running] : []), ...this.queued];
     this.running = undefined;
