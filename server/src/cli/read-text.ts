@@ -11,14 +11,8 @@
  * Otherwise the bytes are decoded as UTF-8 exactly as before (a byte-order mark is kept as U+FEFF, an
  * invalid byte becomes U+FFFD, as `Buffer.toString("utf8")` does).
  */
-import { isAscii as bufferIsAscii } from "node:buffer";
-import { readFileSync } from "node:fs";
+import { isAscii } from "node:buffer";
 import { open } from "node:fs/promises";
-
-/** True when every byte of `bytes` is ASCII (Node's `buffer.isAscii`, present on every Node we support). */
-export function isAscii(bytes: Uint8Array): boolean {
-  return bufferIsAscii(bytes);
-}
 
 /** The text of a file's bytes: a Latin-1 copy when all are ASCII, else UTF-8 decoding (`Buffer.toString`). */
 export function decodeText(bytes: Buffer): string {
@@ -61,9 +55,4 @@ async function readBytes(path: string): Promise<Buffer> {
   } finally {
     await handle.close();
   }
-}
-
-/** Reads the file at `path` as text: the same string as `readFileSync(path, "utf8")`. Throws as it does. */
-export function readTextFileSync(path: string): string {
-  return decodeText(readFileSync(path));
 }
