@@ -1,5 +1,4 @@
 import { resolve } from "node:path";
-import { prepareParsing } from "../../../grammar/src/parse.js";
 import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { SumsOfSquaresType } from "../analysis/design.js";
 import { alignColumns } from "../text/align-columns.js";
@@ -13,7 +12,7 @@ import { VERSION } from "../version.js";
 import { choice, parseArguments, probability } from "./arguments.js";
 import { locateDiagnostics } from "./check-command.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
-import { readTextFile } from "./read-text.js";
+import { readTrialFile } from "./read-text.js";
 
 export const ANALYZE_USAGE = `Usage: trialbook analyze FILE... [--format text|json] [--ss-type I|II|III] [--alpha A] [--confidence C]
   Prints the ANOVA table, R², residual SD and means of every response (JSON: one file at a time).
@@ -35,12 +34,9 @@ export async function analyzeCommand(args: readonly string[], io: CliIo): Promis
   const confidence = probability(values.confidence, "confidence");
   let exit = EXIT_OK;
   for (const path of positionals) {
-    const reading = readTextFile(resolve(io.cwd, path)).catch(() => {
+    const text = await readTrialFile(resolve(io.cwd, path)).catch(() => {
       throw new UsageError(`Cannot read '${path}'.`);
     });
-    // The lexer and parser are built (once) while the file is read.
-    prepareParsing();
-    const text = await reading;
     const analysis = analyzeDocument(text, {}, { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) });
     const diagnostics = locateDiagnostics(text, analysis.diagnostics);
     io.stdout(format === "json" ? JSON.stringify(analysisJson(path, analysis, diagnostics), null, 2) + "\n" : analysisText(path, analysis, diagnostics));

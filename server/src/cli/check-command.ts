@@ -1,6 +1,5 @@
 import { resolve } from "node:path";
 import type { Span } from "../../../grammar/src/ast.js";
-import { prepareParsing } from "../../../grammar/src/parse.js";
 import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { Diagnostic } from "../analysis/diagnostics.js";
 import { choice, parseArguments } from "./arguments.js";
@@ -9,7 +8,7 @@ import { locateOffsets } from "./locate-offsets.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 import { type SarifDiagnostic, type SarifRegion, sarifLog } from "./sarif.js";
 import { createProgress, severityStyle, terminalStyle } from "./terminal-style.js";
-import { readTextFile } from "./read-text.js";
+import { readTrialFile } from "./read-text.js";
 
 export const CHECK_USAGE = `Usage: trialbook check [paths...] [--format text|json|sarif] [--max-warnings N]
   Checks .trial files. Directories are searched recursively (default: the current directory), skipping
@@ -76,11 +75,8 @@ export async function checkCommand(args: readonly string[], io: CliIo): Promise<
   const sarif: SarifDiagnostic[] = [];
   for (const file of files) {
     let text: string;
-    // The lexer and parser are built (once) while the file is read.
-    const reading = readTextFile(resolve(io.cwd, file));
-    prepareParsing();
     try {
-      text = await reading;
+      text = await readTrialFile(resolve(io.cwd, file));
     } catch {
       throw new UsageError(`Cannot read '${file}'.`);
     }

@@ -6,7 +6,7 @@ import { comparisonMarkdown, comparisonText, type ComparisonLabels } from "./com
 import { readFileAtRevision } from "./git-show.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 import { createProgress, terminalStyle } from "./terminal-style.js";
-import { readTextFile } from "./read-text.js";
+import { readTrialFile } from "./read-text.js";
 
 export const COMPARE_USAGE = `Usage: trialbook compare OLD.trial NEW.trial [--format text|md]
        trialbook compare FILE.trial --rev REV [--format text|md]
@@ -56,7 +56,7 @@ export async function compareCommand(args: readonly string[], io: CliIo): Promis
 
 async function readText(io: CliIo, path: string): Promise<string> {
   try {
-    return await readTextFile(resolve(io.cwd, path));
+    return await readTrialFile(resolve(io.cwd, path));
   } catch {
     throw new UsageError(`Cannot read '${path}'.`);
   }

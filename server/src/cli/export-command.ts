@@ -5,7 +5,7 @@ import { runsToCsv } from "../export/runs-to-csv.js";
 import { choice, parseArguments } from "./arguments.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 import { createProgress } from "./terminal-style.js";
-import { readTextFile } from "./read-text.js";
+import { readTrialFile } from "./read-text.js";
 
 export const EXPORT_USAGE = `Usage: trialbook export FILE.trial --format csv [-o OUT.csv] [--pending TEXT]
   Writes the runs table as CSV (RFC 4180; stdout without -o), the inverse of 'trialbook import': columns
@@ -28,7 +28,7 @@ export async function exportCommand(args: readonly string[], io: CliIo): Promise
   const path = positionals[0]!;
   let text: string;
   try {
-    text = await readTextFile(resolve(io.cwd, path));
+    text = await readTrialFile(resolve(io.cwd, path));
   } catch {
     throw new UsageError(`Cannot read '${path}'.`);
   }

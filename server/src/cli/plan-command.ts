@@ -18,7 +18,7 @@ import { replicatesNeededLine } from "../planning/replicates-needed-text.js";
 import { planRunSheet } from "../planning/run-sheet.js";
 import { choice, parseArguments } from "./arguments.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
-import { readTextFile } from "./read-text.js";
+import { readTrialFile } from "./read-text.js";
 
 export const PLAN_USAGE = `Usage: trialbook plan FILE [-o OUT] [--dry-run] [--format trial|html|md] [--seed N] [--reshuffle]
   Writes the randomized run sheet into the runs table: every run the design needs, pending (?), in random
@@ -46,7 +46,7 @@ export async function planCommand(args: readonly string[], io: CliIo): Promise<n
     if (!/^\d+$/.test(String(values.seed)) || !Number.isSafeInteger(seed)) throw new UsageError(`--seed must be a whole number of at least 0, not '${String(values.seed)}'.`);
   }
   const path = positionals[0]!;
-  const text = await readTextFile(resolve(io.cwd, path)).catch(() => {
+  const text = await readTrialFile(resolve(io.cwd, path)).catch(() => {
     throw new UsageError(`Cannot read '${path}'.`);
   });
   // A new seed when the file has none: from the operating system's cryptographic generator, below 2^31.

@@ -13,6 +13,7 @@
  */
 import { isAscii } from "node:buffer";
 import { open } from "node:fs/promises";
+import { prepareParsing } from "../../../grammar/src/parse.js";
 
 /** The text of a file's bytes: a Latin-1 copy when all are ASCII, else UTF-8 decoding (`Buffer.toString`). */
 export function decodeText(bytes: Buffer): string {
@@ -22,6 +23,16 @@ export function decodeText(bytes: Buffer): string {
 /** Reads the file at `path` as text: the same string as `readFile(path, "utf8")`, flat. Rejects as it does. */
 export async function readTextFile(path: string): Promise<string> {
   return decodeText(await readBytes(path));
+}
+
+/**
+ * `readTextFile` of a `.trial` file that is about to be parsed: the lexer and parser (tens of ms of
+ * grammar analysis, once per process) are built while the bytes are read.
+ */
+export function readTrialFile(path: string): Promise<string> {
+  const reading = readTextFile(path);
+  prepareParsing();
+  return reading;
 }
 
 /**

@@ -4,7 +4,7 @@ import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { SumsOfSquaresType } from "../analysis/design.js";
 import { choice, parseArguments, probability } from "./arguments.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
-import { readTextFile } from "./read-text.js";
+import { readTrialFile } from "./read-text.js";
 
 export const REPORT_USAGE = `Usage: trialbook report FILE -o OUT.html|OUT.md [--format html|markdown] [--ss-type I|II|III] [--alpha A] [--confidence C]
   Writes the analysis report with its plots: a self-contained HTML page (inline SVG, no scripts, no
@@ -28,7 +28,7 @@ export async function reportCommand(args: readonly string[], io: CliIo): Promise
   const alpha = probability(values.alpha, "alpha");
   const confidence = probability(values.confidence, "confidence");
   const path = positionals[0]!;
-  const text = await readTextFile(resolve(io.cwd, path)).catch(() => {
+  const text = await readTrialFile(resolve(io.cwd, path)).catch(() => {
     throw new UsageError(`Cannot read '${path}'.`);
   });
   const analysis = analyzeDocument(text, {}, { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) });
