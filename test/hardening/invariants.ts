@@ -26,7 +26,7 @@ import { definition, references } from "../../server/src/lsp/navigation.js";
 import { prepareRename, rename } from "../../server/src/lsp/rename.js";
 import { runSheetOf } from "../../server/src/lsp/run-sheet-request.js";
 import { semanticTokens } from "../../server/src/lsp/semantic-tokens.js";
-import { statusOf } from "../../server/src/lsp/status-request.js";
+import { statusOf } from "../../server/src/lsp/status-of.js";
 import { documentSymbols } from "../../server/src/lsp/symbols.js";
 import { CodeActionKind, type Position, ResponseError, type TextEdit, type WorkspaceEdit } from "vscode-languageserver";
 

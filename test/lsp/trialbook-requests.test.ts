@@ -8,7 +8,7 @@ import { planRunSheet } from "../../server/src/planning/run-sheet.js";
 import { analyzeText } from "../../server/src/lsp/documents.js";
 import { reportOf } from "../../server/src/lsp/report-request.js";
 import { runSheetOf } from "../../server/src/lsp/run-sheet-request.js";
-import { statusOf } from "../../server/src/lsp/status-request.js";
+import { statusOf } from "../../server/src/lsp/status-of.js";
 import { ProtocolClient, SERVER_BUNDLE } from "./protocol-client.js";
 
 const text = readFileSync(resolve("samples/incomplete.trial"), "utf8");

@@ -1,12 +1,13 @@
 import type { Connection } from "vscode-languageserver/node";
 import { ReportRequest, type ReportResult } from "../protocol.js";
 import { reportTitle } from "../report/report-blocks.js";
+import type { VersionSummary } from "./analysis-worker-protocol.js";
 import type { AnalyzedDocument } from "./documents.js";
 import { createHandler } from "./server.js";
 
 /** The part of the server the Trialbook requests need: open documents and the error log. */
 export interface RequestContext {
-  readonly store: { get(uri: string): AnalyzedDocument | undefined };
+  readonly store: { get(uri: string): AnalyzedDocument | undefined; summary?(uri: string): Promise<VersionSummary> | undefined };
   readonly logError: (message: string) => void;
 }
 

@@ -22,6 +22,7 @@ import { codeLenses } from "./code-lens.js";
 import { completion } from "./completion.js";
 import { type AnalyzedDocument, describeError, DocumentStore, LARGE_DOCUMENT_CHARS } from "./documents.js";
 import { AnalysisWorker, SupersededError } from "./analysis-worker-client.js";
+import type { VersionSummary } from "./analysis-worker-protocol.js";
 import { foldingRanges } from "./folding.js";
 import { formatDocument, formatRange } from "./formatting.js";
 import { hover } from "./hover.js";
@@ -72,6 +73,25 @@ export function createHandler<P extends { textDocument: { uri: string } }, R>(
       logError(`${name} failed for ${uri}: ${describeError(error)}`);
       return new ResponseError(ErrorCodes.InternalError, `${name} failed: ${error instanceof Error ? error.message : String(error)}`);
     }
+  };
+}
+
+/**
+ * Wraps a handler whose answer a large document's worker summary also carries (code lenses, status):
+ * from the summary of the current version when the store has one, else from `here` (the main thread's
+ * analysis), also when the worker failed. A version replaced before its analysis started gets null: the
+ * editor asks again for the new one.
+ */
+export function fromSummaryOr<P extends { textDocument: { uri: string } }, R>(
+  store: { summary?(uri: string): Promise<VersionSummary> | undefined },
+  pick: (summary: VersionSummary) => R,
+  here: (params: P, token: CancellationToken) => R | null | ResponseError<void>,
+): (params: P, token: CancellationToken) => R | null | ResponseError<void> | Promise<R | null | ResponseError<void>> {
+  return (params, token) => {
+    const uri = (params as { textDocument?: { uri?: unknown } } | null | undefined)?.textDocument?.uri;
+    const summary = typeof uri === "string" ? store.summary?.(uri) : undefined;
+    if (!summary) return here(params, token);
+    return summary.then(pick, (error: unknown) => (error instanceof SupersededError ? null : here(params, token)));
   };
 }
 
@@ -169,16 +189,7 @@ export function createServer(connection: Connection, options: ServerOptions = {}
     createHandler(name, store, logError, body);
 
   connection.onHover(handle("hover", (doc, p) => hover(doc, p.position)));
-  const codeLensHere = handle("codeLens", (doc) => codeLenses(doc));
-  // A large document's lenses come from the worker's summary; if the worker fails, from the main thread.
-  // A request for a version replaced before its analysis started gets no lenses (the editor asks again).
-  connection.onCodeLens(
-    (params, token) =>
-      store.summary(params.textDocument.uri)?.then(
-        (s) => s.lenses,
-        (error: unknown) => (error instanceof SupersededError ? null : codeLensHere(params, token)),
-      ) ?? codeLensHere(params, token),
-  );
+  connection.onCodeLens(fromSummaryOr(store, (s) => s.lenses, handle("codeLens", (doc) => codeLenses(doc))));
   connection.onCodeAction(handle("codeAction", (doc, p) => codeActions(doc, p, { snippetEdits: features.snippetEdits })));
   connection.onDocumentFormatting(handle("formatting", (doc, p) => formatDocument(doc, p.options)));
   connection.onDocumentRangeFormatting(handle("rangeFormatting", (doc, p) => formatRange(doc, p.range, p.options)));
