@@ -10,16 +10,13 @@
  * request to the shipped server. Heap after 10,000 edits must be within 20 % of the heap after 1,000.
  */
 import assert from "node:assert/strict";
-import { PassThrough } from "node:stream";
 import { setFlagsFromString } from "node:v8";
 import { runInNewContext } from "node:vm";
-import { createMessageConnection, type MessageConnection, ResponseError, StreamMessageReader, StreamMessageWriter } from "vscode-jsonrpc/node";
+import { ResponseError } from "vscode-jsonrpc/node";
 import type { Hover, MarkupContent, PublishDiagnosticsParams } from "vscode-languageserver";
-import { createConnection, ProposedFeatures } from "vscode-languageserver/node";
 import { analyzeDocument } from "../../server/src/analysis/analyze-document.js";
-import { createServer } from "../../server/src/lsp/server.js";
-import { registerTrialbookRequests } from "../../server/src/lsp/trialbook-requests.js";
 import { COATING } from "../lsp/helpers.js";
+import { InProcessServer } from "../lsp/in-process-server.js";
 import { ensureServerBundle, ProtocolClient } from "../lsp/protocol-client.js";
 
 const URI = "file:///work/hardening/invented.trial";
@@ -174,23 +171,12 @@ describe("hardening: server heap under 10,000 edits (in process, in-memory strea
   it("holds the heap after 10,000 edits within 20 % of the heap after 1,000 (after garbage collection)", async () => {
     setFlagsFromString("--expose-gc");
     const gc = runInNewContext("gc") as () => void;
-    const toServer = new PassThrough();
-    const toClient = new PassThrough();
-    const serverConnection = createConnection(ProposedFeatures.all, new StreamMessageReader(toServer), new StreamMessageWriter(toClient));
-    registerTrialbookRequests(serverConnection, createServer(serverConnection));
-    serverConnection.listen();
-    const client: MessageConnection = createMessageConnection(new StreamMessageReader(toClient), new StreamMessageWriter(toServer));
-    const waiters = new Map<number, () => void>();
-    client.onNotification("textDocument/publishDiagnostics", (p: PublishDiagnosticsParams) => {
-      if (p.version !== undefined) waiters.get(p.version)?.();
-    });
-    client.onNotification("window/logMessage", () => undefined);
-    client.listen();
-    await client.sendRequest("initialize", { processId: null, rootUri: null, initializationOptions: { trialbook: { analysisDelay: 0 } }, capabilities: {} });
-    await client.sendNotification("initialized", {});
+    const server = new InProcessServer();
+    const client = server.client;
+    await server.start(0);
 
     let version = 1;
-    const published = (v: number) => new Promise<void>((resolve) => waiters.set(v, resolve));
+    const published = (v: number) => server.published(v);
     let wait = published(1);
     await client.sendNotification("textDocument/didOpen", { textDocument: { uri: URI, languageId: "trial", version, text: COATING } });
     await wait;
@@ -209,10 +195,7 @@ describe("hardening: server heap under 10,000 edits (in process, in-memory strea
         if (waitHere) wait = published(version);
         await client.sendNotification("textDocument/didChange", { textDocument: { uri: URI, version }, contentChanges: [{ range: gloss(GLOSS_LINE), text: value }] });
         if (version % 50 === 0) await client.sendRequest("textDocument/hover", { textDocument: { uri: URI }, position: { line: 2, character: 10 } });
-        if (waitHere) {
-          await wait;
-          waiters.delete(version);
-        }
+        if (waitHere) await wait;
       }
     };
     await edits(1000);
@@ -223,9 +206,6 @@ describe("hardening: server heap under 10,000 edits (in process, in-memory strea
     console.log(`      heap after 1,000 edits ${(at1000 / 1e6).toFixed(1)} MB, after 10,000 ${(at10000 / 1e6).toFixed(1)} MB (ratio ${ratio.toFixed(3)})`);
     assert.ok(ratio <= 1.2, `heap grew by ${((ratio - 1) * 100).toFixed(1)} % between 1,000 and 10,000 edits`);
 
-    client.dispose();
-    serverConnection.dispose();
-    toServer.destroy();
-    toClient.destroy();
+    await server.stop([URI]);
   });
 });

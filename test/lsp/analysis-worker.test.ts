@@ -6,16 +6,13 @@
  * counters are read), with a small size limit; then the bundled server with a document above the real one.
  */
 import assert from "node:assert/strict";
-import { PassThrough } from "node:stream";
-import { createMessageConnection, type MessageConnection, StreamMessageReader, StreamMessageWriter } from "vscode-jsonrpc/node";
-import { createConnection, type PublishDiagnosticsParams, ProposedFeatures } from "vscode-languageserver/node";
 import { AnalysisWorker, SupersededError } from "../../server/src/lsp/analysis-worker-client.js";
 import { codeLenses } from "../../server/src/lsp/code-lens.js";
 import { toLspDiagnostics } from "../../server/src/lsp/convert.js";
 import { analyzeText, LARGE_DOCUMENT_CHARS } from "../../server/src/lsp/documents.js";
-import { createServer, type ServerOptions, WORKER_STARTED_LOG } from "../../server/src/lsp/server.js";
+import { WORKER_STARTED_LOG } from "../../server/src/lsp/server.js";
+import { InProcessServer } from "./in-process-server.js";
 import { statusOf } from "../../server/src/lsp/status-of.js";
-import { registerTrialbookRequests } from "../../server/src/lsp/trialbook-requests.js";
 import { ensureServerBundle, ProtocolClient } from "./protocol-client.js";
 
 const URI = "file:///w/invented-press.trial";
@@ -36,46 +33,6 @@ function expected(text: string, version: number) {
   return { diagnostics: toLspDiagnostics(doc.analysis.diagnostics, doc.lineIndex, URI), lenses: codeLenses(doc), status: statusOf(doc) };
 }
 
-class InProcessServer {
-  readonly client: MessageConnection;
-  readonly server: ReturnType<typeof createServer>;
-  readonly logs: string[] = [];
-  private readonly streams = [new PassThrough(), new PassThrough()] as const;
-  private readonly waiters = new Map<number, (p: PublishDiagnosticsParams) => void>();
-
-  constructor(options: ServerOptions) {
-    const [toServer, toClient] = this.streams;
-    const connection = createConnection(ProposedFeatures.all, new StreamMessageReader(toServer), new StreamMessageWriter(toClient));
-    this.server = createServer(connection, options);
-    registerTrialbookRequests(connection, this.server);
-    connection.listen();
-    this.client = createMessageConnection(new StreamMessageReader(toClient), new StreamMessageWriter(toServer));
-    this.client.onNotification("window/logMessage", (p: { message: string }) => {
-      this.logs.push(p.message);
-    });
-    this.client.onNotification("textDocument/publishDiagnostics", (p: PublishDiagnosticsParams) => {
-      if (p.version !== undefined) this.waiters.get(p.version)?.(p);
-    });
-    this.client.listen();
-  }
-
-  async start(): Promise<void> {
-    await this.client.sendRequest("initialize", { processId: null, rootUri: null, initializationOptions: { trialbook: { analysisDelay: 0 } }, capabilities: {} });
-    await this.client.sendNotification("initialized", {});
-  }
-
-  published(version: number): Promise<PublishDiagnosticsParams> {
-    return new Promise((resolve) => this.waiters.set(version, resolve));
-  }
-
-  async stop(): Promise<void> {
-    await this.client.sendNotification("textDocument/didClose", { textDocument: { uri: URI } });
-    await this.client.sendRequest("shutdown", null);
-    this.client.dispose();
-    for (const s of this.streams) s.destroy();
-  }
-}
-
 describe("lsp: large documents are analysed in the worker thread", function () {
   this.timeout(120_000);
   const worker = new URL("../../server/src/lsp/analysis-worker.js", import.meta.url);
@@ -83,7 +40,7 @@ describe("lsp: large documents are analysed in the worker thread", function () {
   it("publishes the main thread's diagnostics and answers code lens and status from the worker, without analysing on the main thread", async () => {
     const s = new InProcessServer({ analysisWorker: worker, largeDocumentChars: 500 });
     try {
-      await s.start();
+      await s.start(0);
       const text = pressTrial(60);
       assert.ok(text.length >= 500);
       assert.ok(!s.logs.some((l) => l.startsWith(WORKER_STARTED_LOG)), "no worker before a large document");
@@ -108,7 +65,7 @@ describe("lsp: large documents are analysed in the worker thread", function () {
       assert.equal(s.logs.filter((l) => l.startsWith(WORKER_STARTED_LOG)).length, 1, "one worker thread");
       assert.ok(s.server.store.stats.workerAnalyses >= 2, `worker analyses: ${s.server.store.stats.workerAnalyses}`);
     } finally {
-      await s.stop();
+      await s.stop([URI]);
     }
   });
 
@@ -134,7 +91,7 @@ describe("lsp: large documents are analysed in the worker thread", function () {
   it("analyses a document below the size on the main thread", async () => {
     const s = new InProcessServer({ analysisWorker: worker, largeDocumentChars: 1_000_000 });
     try {
-      await s.start();
+      await s.start(0);
       const text = pressTrial(12);
       const published = s.published(1);
       await s.client.sendNotification("textDocument/didOpen", { textDocument: { uri: URI, languageId: "trial", version: 1, text } });
@@ -142,14 +99,14 @@ describe("lsp: large documents are analysed in the worker thread", function () {
       assert.equal(s.server.store.stats.analyses, 1);
       assert.equal(s.server.store.stats.workerAnalyses, 0);
     } finally {
-      await s.stop();
+      await s.stop([URI]);
     }
   });
 
   it("falls back to the main thread when the worker cannot start, and says so in the log", async () => {
     const s = new InProcessServer({ analysisWorker: new URL("./no-such-worker.js", import.meta.url), largeDocumentChars: 500 });
     try {
-      await s.start();
+      await s.start(0);
       const text = pressTrial(60);
       const published = s.published(1);
       await s.client.sendNotification("textDocument/didOpen", { textDocument: { uri: URI, languageId: "trial", version: 1, text } });
@@ -168,7 +125,7 @@ describe("lsp: large documents are analysed in the worker thread", function () {
       }
       assert.ok(s.logs.filter((l) => l.startsWith(WORKER_STARTED_LOG)).length <= 2, s.logs.join("\n"));
     } finally {
-      await s.stop();
+      await s.stop([URI]);
     }
   });
 

@@ -5,10 +5,7 @@
  * in-memory streams, so that the store's counters can be read.
  */
 import assert from "node:assert/strict";
-import { PassThrough } from "node:stream";
-import { createMessageConnection, type MessageConnection, StreamMessageReader, StreamMessageWriter } from "vscode-jsonrpc/node";
-import { createConnection, ProposedFeatures } from "vscode-languageserver/node";
-import { createServer } from "../../server/src/lsp/server.js";
+import { InProcessServer } from "./in-process-server.js";
 
 const URI = "file:///w/invented-cure.trial";
 const TEXT = [
@@ -26,34 +23,19 @@ const TEXT = [
 
 describe("lsp: syntax requests do not wait for the analysis", function () {
   this.timeout(60_000);
-  let client: MessageConnection;
-  let server: ReturnType<typeof createServer>;
-  const streams = [new PassThrough(), new PassThrough()] as const;
+  let s: InProcessServer;
 
   before(async () => {
-    const [toServer, toClient] = streams;
-    const connection = createConnection(ProposedFeatures.all, new StreamMessageReader(toServer), new StreamMessageWriter(toClient));
-    server = createServer(connection);
-    connection.listen();
-    client = createMessageConnection(new StreamMessageReader(toClient), new StreamMessageWriter(toServer));
-    client.onNotification("window/logMessage", () => undefined);
-    client.onNotification("textDocument/publishDiagnostics", () => undefined);
-    client.listen();
+    s = new InProcessServer();
     // A long analysis delay: no debounced analysis runs during the test, only what requests ask for.
-    await client.sendRequest("initialize", { processId: null, rootUri: null, initializationOptions: { trialbook: { analysisDelay: 60_000 } }, capabilities: {} });
-    await client.sendNotification("initialized", {});
+    await s.start(60_000);
   });
-
-  after(async () => {
-    // Closing the document cancels its pending (60 s) analysis, so nothing outlives the connection.
-    await client.sendNotification("textDocument/didClose", { textDocument: { uri: URI } });
-    await client.sendRequest("shutdown", null);
-    client.dispose();
-    for (const s of streams) s.destroy();
-  });
+  // Closing the document cancels its pending (60 s) analysis, so nothing outlives the connection.
+  after(() => s.stop([URI]));
 
   it("answers completion, semantic tokens, folding, symbols, formatting and definition from the parse; hover and code lens analyse once", async () => {
-    const analyses = () => server.store.stats.analyses;
+    const analyses = () => s.server.store.stats.analyses;
+    const client = s.client;
     await client.sendNotification("textDocument/didOpen", { textDocument: { uri: URI, languageId: "trial", version: 1, text: TEXT } });
     const doc = { textDocument: { uri: URI } };
     const completion = (await client.sendRequest("textDocument/completion", { ...doc, position: { line: 5, character: 8 } })) as { label: string }[] | { items: { label: string }[] };
