@@ -112,3 +112,36 @@ describe("pairwise A x B through analyzeDocument", () => {
     assert.ok(d && /speed/.test(d.message));
   });
 });
+
+describe("comparisons that need the studentized range with too few degrees of freedom", () => {
+  // Invented: three coating baths, four runs, so the one-way model leaves 1 residual df (R's ptukey and
+  // qtukey return NaN below 2 df, and so did the tables, shown as dashes with all levels sharing a letter).
+  const trial = [
+    "# Invented: three coating baths, four runs.",
+    "response y unit mm",
+    "factor bath levels 1, 2, 3",
+    "runs id bath | y",
+    "  r1 1 | 10.1",
+    "  r2 1 | 10.4",
+    "  r3 2 | 11.2",
+    "  r4 3 | 12.0",
+    "",
+  ].join("\n");
+  const analysis = analyzeDocument(trial);
+  const r = analysis.responses[0]!;
+
+  it("skips Tukey with a hint naming the residual df, and draws no letters from missing p-values", () => {
+    assert.equal(r.anova.find((row) => row.source === "Residual")?.df, 1);
+    const hint = analysis.diagnostics.find((d) => d.code === "check-skipped" && d.message.startsWith("No Tukey HSD comparisons of 'bath'"));
+    assert.ok(hint, "a check-skipped hint for Tukey");
+    assert.match(hint.message, /leaves 1 residual degree of freedom and the studentized range needs at least 2: add replicate runs/);
+    assert.equal(r.groups, undefined);
+    assert.equal(r.comparisons?.some((c) => c.method === "tukey"), false);
+  });
+
+  it("keeps the t-based comparisons and the trend contrasts, which are defined at 1 df", () => {
+    assert.deepEqual([...new Set(r.comparisons!.map((c) => c.method))], ["lsd", "bonferroni", "holm"]);
+    assert.ok(r.comparisons!.every((c) => c.p !== null && c.lower !== null));
+    assert.deepEqual(r.contrasts?.map((c) => c.contrast), ["linear", "quadratic"]);
+  });
+});

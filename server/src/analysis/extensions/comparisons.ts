@@ -15,7 +15,8 @@ import type { ResponseExtension } from "../analyze-document.js";
 import { type Diagnostic, diagnostic } from "../diagnostics.js";
 import type { BestLevel, ComparisonResult, LetterGroup, PolynomialContrastResult, ResponseAnalysis } from "../results.js";
 import { letterDisplay } from "../../stats/comparisons/letter-display.js";
-import { type ComparisonMethod, type ComparisonOutcome, comparisonProblem, dunnett, gamesHowell, pairwiseT, tukeyHsd } from "../../stats/comparisons/pairwise.js";
+import { type ComparisonMethod, type ComparisonOutcome, comparisonProblem, dunnett, gamesHowell, gamesHowellPairsBelowMinDf, pairwiseT, tukeyHsd } from "../../stats/comparisons/pairwise.js";
+import { STUDENTIZED_RANGE_MIN_DF } from "../../stats/distributions/studentized-range.js";
 import { equallySpaced, polynomialContrasts } from "../../stats/comparisons/polynomial-contrasts.js";
 import { type ComparedGroups, commonGroupings, fixedMainEffects, groupsOf, prepareGroups } from "./compared-groups.js";
 
@@ -59,14 +60,21 @@ export const comparisonsExtension: ResponseExtension = (context) => {
     for (const method of familyMethods(g, control)) {
       const problem = comparisonProblem(method, g.summaries, pooled, method === "dunnett" ? g.declared.indexOf(control!) : undefined);
       if (problem) diagnostics.push(diagnostic("check-skipped", span, `No ${methodName(method)} comparisons of '${g.term}' for '${response.name}': ${problem}.`));
-      else {
+      else if (method === "games-howell") {
+        anyComparison = true;
+        const low = gamesHowellPairsBelowMinDf(g.summaries);
+        if (low.length > 0) {
+          const pairs = low.map((p) => `${g.labels[p.a]} − ${g.labels[p.b]} (${Math.round(p.df * 100) / 100} df)`).join(", ");
+          diagnostics.push(diagnostic("check-skipped", span, `Games-Howell comparisons of '${g.term}' for '${response.name}': ${pairs} ${low.length === 1 ? "has" : "have"} too few Welch degrees of freedom for the studentized range (at least ${STUDENTIZED_RANGE_MIN_DF}), so ${low.length === 1 ? "its row has" : "their rows have"} no interval or p-value. Add runs to the levels with the fewest runs or the widest spread.`));
+        }
+      } else {
         anyComparison = true;
         if (method === "tukey") anyTukey = true;
       }
     }
-    // Trend contrasts (t distribution only, cheap) for a numeric factor with equally spaced levels, as
-    // before when Tukey's comparisons can be made.
-    if (comparisonProblem("tukey", g.summaries, pooled) === null && g.factors.length === 1) contrasts.push(...trendContrasts(context, g, pooled, confidence));
+    // Trend contrasts (t distribution only, cheap) for a numeric factor with equally spaced levels, when
+    // the pooled t tests can be made (the studentized range's own minimum df does not apply).
+    if (comparisonProblem("lsd", g.summaries, pooled) === null && g.factors.length === 1) contrasts.push(...trendContrasts(context, g, pooled, confidence));
   }
 
   let tables: { comparisons: ComparisonResult[]; groups: LetterGroup[]; best: BestLevel[] } | undefined;
@@ -121,8 +129,9 @@ function comparisonTables(
       if (index >= 0) emit("dunnett", dunnett(g.summaries, index, pooled, confidence));
     }
 
-    // Letters from the Tukey comparisons, best level first.
-    if (!tukey.ok) continue;
+    // Letters from the Tukey comparisons, best level first. A pair without a p-value (a distribution that
+    // failed) would read as "do not differ": then no letters at all rather than misleading ones.
+    if (!tukey.ok || tukey.pairs.some((p) => p.p === null)) continue;
     const differs = new Set(tukey.pairs.filter((p) => p.p !== null && p.p < alpha).map((p) => `${p.a},${p.b}`));
     const order = orderByGoal(present, (i) => g.summaries[i]!.mean + context.offset, response.goal, response.target);
     const letters = letterDisplay(g.summaries.length, order, (i, j) => differs.has(`${Math.min(i, j)},${Math.max(i, j)}`));
