@@ -211,8 +211,8 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
   let chunkAscii = false;
   while (p < end) {
     // At a line start (or the header's line break): skip the line break first. After a line feed, the
-    // table ends if the line's first word (after spaces and tabs) is a top-level keyword: that line starts
-    // the next declaration.
+    // table ends if the line's first word (after spaces, tabs and byte-order marks, the blanks of a row)
+    // is a top-level keyword: that line starts the next declaration.
     let c = source.charCodeAt(p);
     if (c === LF || c === CR) {
       p++;
@@ -221,12 +221,12 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
         p++;
       }
       let q = p;
-      while (q < end && ((c = source.charCodeAt(q)) === SPACE || c === TAB)) q++;
+      while (q < end && ((c = source.charCodeAt(q)) === SPACE || c === TAB || c === BOM)) q++;
       if (q < end && isTopLevelKeywordAt(source, q)) {
         bodyEnd = p;
         break;
       }
-      // The spaces and tabs just read are blanks for the row too.
+      // The blanks just read are blanks for the row too.
       p = q;
       continue;
     }

@@ -28,6 +28,7 @@ export function isTopLevelKeyword(word: string): boolean {
 
 const SPACE = 32;
 const TAB = 9;
+const BOM = 0xfeff;
 
 /**
  * The top-level keywords grouped by first character (ASCII code), so the line test compares a word with
@@ -85,14 +86,15 @@ export function isTopLevelKeywordAt(text: string, p: number): boolean {
 }
 
 /**
- * If the line starting at `lineStart` begins (after spaces and tabs) with a top-level keyword as a whole
- * word, returns true. Used to find where a runs table or an unterminated text block ends.
+ * If the line starting at `lineStart` begins (after spaces, tabs and byte-order marks, the blanks of the
+ * lexer) with a top-level keyword as a whole word, returns true. Used to find where a runs table or an
+ * unterminated text block ends.
  */
 export function lineStartsWithTopLevelKeyword(text: string, lineStart: number): boolean {
   let p = lineStart;
   const n = text.length;
   let c = p < n ? text.charCodeAt(p) : -1;
-  while (c === SPACE || c === TAB) {
+  while (c === SPACE || c === TAB || c === BOM) {
     p++;
     c = p < n ? text.charCodeAt(p) : -1;
   }

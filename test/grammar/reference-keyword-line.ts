@@ -1,13 +1,16 @@
 /**
- * The former line test of `tokens.ts` (kept verbatim as a reference for tests): whether a line starts,
- * after spaces and tabs, with a top-level keyword as a whole word. It cut the word out of the text and
- * looked it up in a set.
+ * The former line test of `tokens.ts` (kept as a reference for tests): whether a line starts, after
+ * spaces, tabs and byte-order marks, with a top-level keyword as a whole word. It cut the word out of the
+ * text and looked it up in a set. (The byte-order mark joined the blanks on 2026-12-02, in the product and
+ * here alike: a fuzzed document showed formatting turn a BOM-prefixed `trial` line inside a table into the
+ * end of the table.)
  */
 import { TOP_LEVEL_KEYWORDS } from "../../grammar/src/tokens.js";
 
 const TOP_LEVEL_SET: ReadonlySet<string> = new Set(TOP_LEVEL_KEYWORDS);
 const CH_SPACE = 32;
 const CH_TAB = 9;
+const CH_BOM = 0xfeff;
 
 function isWordChar(c: number): boolean {
   return (
@@ -20,7 +23,7 @@ export function lineStartsWithTopLevelKeywordReference(text: string, lineStart: 
   let p = lineStart;
   const n = text.length;
   let c = p < n ? text.charCodeAt(p) : -1;
-  while (c === CH_SPACE || c === CH_TAB) {
+  while (c === CH_SPACE || c === CH_TAB || c === CH_BOM) {
     p++;
     c = p < n ? text.charCodeAt(p) : -1;
   }

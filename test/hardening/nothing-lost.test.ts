@@ -93,6 +93,16 @@ describe("hardening: nothing lost", function () {
     }
   });
 
+  it("formatting keeps every value when a byte-order mark starts a keyword line inside a table (found by the fuzzer)", () => {
+    // Seed 993255374 of the property above: the BOM-prefixed `trial` line was a row, and formatting dropped
+    // the BOM with the row's leading blanks, so the table ended there and its later rows were lost.
+    const text =
+      "      r01  cool  short | 81.2\nresponse gloss unit GU maximize\nfactor temp levels cool, warm\nfactor dwell levels short, long\nplan\n  replicates 2\n  seed 42\nruns  id   temp  dwell | gloss\n\ufefftrial \"Coating gloss vs. bath temperature\"\n      r02  warm  long  | 88.9\n      r03  cool  long  | 83.0\n";
+    const doc = structural(text);
+    const after = applyCheckedEdits(text, doc.lineIndex, formatDocument(doc), "formatting");
+    assert.deepEqual(recorded(after), recorded(text), `formatting ${excerpt(text)}`);
+  });
+
   it("formatting keeps stray text after an excluded reason (found by the fuzzer: it was dropped)", () => {
     const text = 'response y\nfactor a levels p, q\nruns id a | y\n  r1 p | 1 excluded "why" oops\n  r2 q | 2\n';
     const doc = structural(text);
