@@ -14,7 +14,7 @@ import { leveneTest } from "../../../server/src/stats/checks/levene.js";
 import { shapiroWilk } from "../../../server/src/stats/checks/shapiro-wilk.js";
 import { summarizeGroups } from "../../../server/src/stats/comparisons/group-summary.js";
 import { letterDisplay } from "../../../server/src/stats/comparisons/letter-display.js";
-import { dunnett, gamesHowell, gamesHowellPairsBelowMinDf, pairwiseT, tukeyHsd } from "../../../server/src/stats/comparisons/pairwise.js";
+import { dunnett, gamesHowell, pairwiseT, tukeyHsd } from "../../../server/src/stats/comparisons/pairwise.js";
 import { polynomialCoefficients, polynomialContrasts } from "../../../server/src/stats/comparisons/polynomial-contrasts.js";
 import { chiSquareUpperTail } from "../../../server/src/stats/distributions/chi-square-distribution.js";
 import { dunnettTwoSidedCdf, dunnettTwoSidedQuantile } from "../../../server/src/stats/distributions/dunnett.js";
@@ -45,8 +45,11 @@ describe("comparisons against R (invented supplier data, unbalanced one-way)", (
     for (const ref of ow.pairs) {
       const pair = t.pairs.find((p) => levels[p.a] === ref.a && levels[p.b] === ref.b)!;
       close(pair.diff, ref.tukeyDiff, 1e-12, 1e-13, `diff ${ref.a}-${ref.b}`);
-      close(pair.lower, ref.tukeyLower, 1e-8, 1e-9, `lower ${ref.a}-${ref.b}`);
-      close(pair.upper, ref.tukeyUpper, 1e-8, 1e-9, `upper ${ref.a}-${ref.b}`);
+      // TukeyHSD's interval uses qtukey, which R documents as accurate to the 4th decimal place (its
+      // secant iteration stops at a step of 1e-4; here it is within 4e-8): our quantile is checked far
+      // tighter against the defining integral (test/stats/distributions/studentized-range.test.ts).
+      close(pair.lower, ref.tukeyLower, 1e-6, 1e-9, `lower ${ref.a}-${ref.b}`);
+      close(pair.upper, ref.tukeyUpper, 1e-6, 1e-9, `upper ${ref.a}-${ref.b}`);
       close(pair.p, ref.tukeyP, 1e-7, 1e-10, `p ${ref.a}-${ref.b}`);
     }
   });
@@ -62,21 +65,12 @@ describe("comparisons against R (invented supplier data, unbalanced one-way)", (
     }
   });
 
-  it("Tukey is skipped below the studentized range's 2 df; Games-Howell names its pairs below it", () => {
-    const two = [
-      { n: 2, mean: 10, variance: 1 },
-      { n: 2, mean: 12, variance: 100 },
-    ];
-    // Welch df of the pair: (0.5 + 50)² / (0.5² + 50²) = 1.02: the pair is named, its row has no numbers.
-    assert.deepEqual(gamesHowellPairsBelowMinDf(two).map((p) => [p.a, p.b, Math.round(p.df * 100) / 100]), [[0, 1, 1.02]]);
-    const gh = gamesHowell(two, 0.95);
-    assert.ok(gh.ok);
-    assert.deepEqual([gh.pairs[0]!.lower, gh.pairs[0]!.p], [null, null]);
-    assert.deepEqual(gamesHowellPairsBelowMinDf([two[0]!, { n: 3, mean: 11, variance: 1 }]), []);
-    const tukey = tukeyHsd(two, { ms: 3, df: 1 }, 0.95);
-    assert.equal(tukey.ok, false);
-    assert.match((tukey as { reason: string }).reason, /leaves 1 residual degree of freedom/);
-    assert.equal(tukeyHsd(two, { ms: 3, df: 2 }, 0.95).ok, true);
+  it("Tukey and Games-Howell of more than 100 levels are skipped with the reason", () => {
+    const many = Array.from({ length: 101 }, (_, i) => ({ n: 3, mean: i, variance: 1 }));
+    for (const outcome of [tukeyHsd(many, { ms: 1, df: 202 }, 0.95), gamesHowell(many, 0.95)]) {
+      assert.equal(outcome.ok, false);
+      assert.match((outcome as { reason: string }).reason, /101 levels are more than the 100 the studentized range is computed for/);
+    }
   });
 
   it("Games-Howell equals its formula computed in R with ptukey/qtukey", () => {
@@ -177,33 +171,21 @@ describe("comparisons against R (invented supplier data, unbalanced one-way)", (
 });
 
 describe("distributions against R", () => {
-  it("studentized range upper tail equals ptukey(lower.tail = FALSE) on a grid (k 2-10, df 2-60) to 1e-10 absolute", () => {
-    // jstat ports R's ptukey but uses its own normal CDF, so the two agree to about 3e-11 absolute, not to the ulp.
+  it("studentized range upper tail equals ptukey(lower.tail = FALSE) on a grid (k 2-10, df 2-60) within ptukey's own error", () => {
+    // R's ptukey is a reference only to its own accuracy: R's QUADPACK integral of the definition gives
+    // 0.005557878295156 for P(Q > 8; 3, 5), ours 0.005557878295160 and ptukey 0.005557802133189 (7.6e-8
+    // off); at 2 df it is off by up to 1e-4. The tight checks against those integrals are in
+    // test/stats/distributions/studentized-range.test.ts.
     const g = R.ptukeyUpper;
-    g.q.forEach((q: number, i: number) => close(studentizedRangeUpperTail(q, g.k[i], g.df[i]), Math.max(g.p[i], 1e-10), 1e-8, 1e-10, `ptukey(${q}, ${g.k[i]}, ${g.df[i]})`));
+    g.q.forEach((q: number, i: number) => close(studentizedRangeUpperTail(q, g.k[i], g.df[i]), Math.max(g.p[i], 1e-10), 0, g.df[i] >= 3 ? 1e-7 : 2e-4, `ptukey(${q}, ${g.k[i]}, ${g.df[i]})`));
   });
 
-  it("studentized range of two means equals the exact identity 2·pt(q/√2, ν) - 1 from ν = 3 on; at ν = 2 within the algorithm's 2e-4", () => {
-    // Reference: R 4.2.2, 2 * pt(q / sqrt(2), df) - 1 (the range of two means is √2 |T|). R's ptukey, which
-    // ours reproduces, gives 0.447226593658053 and 0.970248165892567 at ν = 2 for q = 1 and 8 (off by
-    // 1.3e-5 and 1.1e-4); from ν = 3 on it agrees with the identity to about 1e-13 (see studentized-range.ts).
-    const exact: [number, number, number][] = [
-      [1, 2, 0.447213595499958], [8, 2, 0.970142500145332],
-      [1, 3, 0.469522229067043], [3.5, 3, 0.910323856129886], [8, 3, 0.989062342988379],
-      [1, 5, 0.488915919569719], [3.5, 5, 0.943806793262246], [8, 5, 0.997601145953122],
-      [1, 12, 0.50699626496], [3.5, 12, 0.970768642042172], [8, 12, 0.999893877986433],
-    ];
-    for (const [q, df, cdf] of exact) {
-      const ours = 1 - studentizedRangeUpperTail(q, 2, df);
-      close(ours, cdf, 0, df === 2 ? 2e-4 : 2e-11, `k = 2, q = ${q}, df = ${df}`);
-    }
-    assert.ok(Math.abs(1 - studentizedRangeUpperTail(8, 2, 2) - 0.970142500145332) > 1e-5, "the df = 2 error is still R's (update the bound when it is fixed)");
-    assert.ok(Number.isNaN(studentizedRangeUpperTail(3, 3, 1.5)), "below 2 df the algorithm gives no value");
-  });
-
-  it("studentized range quantile equals qtukey on a grid", () => {
+  it("studentized range quantile equals qtukey on a grid (df 5-60) within qtukey's documented 4th decimal", () => {
+    // At 2 df qtukey inverts ptukey's 1e-4 errors (1.3e-3 off in q): not a reference there.
     const g = R.qtukey;
-    g.p.forEach((p: number, i: number) => close(studentizedRangeQuantile(p, g.k[i], g.df[i]), g.q[i], 1e-9, 0, `qtukey(${p}, ${g.k[i]}, ${g.df[i]})`));
+    g.p.forEach((p: number, i: number) => {
+      if (g.df[i] >= 3) close(studentizedRangeQuantile(p, g.k[i], g.df[i]), g.q[i], 0, 1e-4, `qtukey(${p}, ${g.k[i]}, ${g.df[i]})`);
+    });
   });
 
   it("noncentral F both tails equal pf(ncp =) within pf's own accuracy, 1e-9 (ncp 0-300, df1 1-7, df2 4-200)", () => {

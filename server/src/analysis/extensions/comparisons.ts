@@ -15,8 +15,7 @@ import type { ResponseExtension } from "../analyze-document.js";
 import { type Diagnostic, diagnostic } from "../diagnostics.js";
 import type { BestLevel, ComparisonResult, LetterGroup, PolynomialContrastResult, ResponseAnalysis } from "../results.js";
 import { letterDisplay } from "../../stats/comparisons/letter-display.js";
-import { type ComparisonMethod, type ComparisonOutcome, comparisonProblem, dunnett, gamesHowell, gamesHowellPairsBelowMinDf, pairwiseT, tukeyHsd } from "../../stats/comparisons/pairwise.js";
-import { STUDENTIZED_RANGE_MIN_DF } from "../../stats/distributions/studentized-range.js";
+import { type ComparisonMethod, type ComparisonOutcome, comparisonProblem, dunnett, gamesHowell, pairwiseT, tukeyHsd } from "../../stats/comparisons/pairwise.js";
 import { equallySpaced, polynomialContrasts } from "../../stats/comparisons/polynomial-contrasts.js";
 import { type ComparedGroups, commonGroupings, fixedMainEffects, groupsOf, prepareGroups } from "./compared-groups.js";
 
@@ -60,21 +59,14 @@ export const comparisonsExtension: ResponseExtension = (context) => {
     for (const method of familyMethods(g, control)) {
       const problem = comparisonProblem(method, g.summaries, pooled, method === "dunnett" ? g.declared.indexOf(control!) : undefined);
       if (problem) diagnostics.push(diagnostic("check-skipped", span, `No ${methodName(method)} comparisons of '${g.term}' for '${response.name}': ${problem}.`));
-      else if (method === "games-howell") {
-        anyComparison = true;
-        const low = gamesHowellPairsBelowMinDf(g.summaries);
-        if (low.length > 0) {
-          const pairs = low.map((p) => `${g.labels[p.a]} − ${g.labels[p.b]} (${Math.round(p.df * 100) / 100} df)`).join(", ");
-          diagnostics.push(diagnostic("check-skipped", span, `Games-Howell comparisons of '${g.term}' for '${response.name}': ${pairs} ${low.length === 1 ? "has" : "have"} too few Welch degrees of freedom for the studentized range (at least ${STUDENTIZED_RANGE_MIN_DF}), so ${low.length === 1 ? "its row has" : "their rows have"} no interval or p-value. Add runs to the levels with the fewest runs or the widest spread.`));
-        }
-      } else {
+      else {
         anyComparison = true;
         if (method === "tukey") anyTukey = true;
       }
     }
-    // Trend contrasts (t distribution only, cheap) for a numeric factor with equally spaced levels, when
-    // the pooled t tests can be made (the studentized range's own minimum df does not apply).
-    if (comparisonProblem("lsd", g.summaries, pooled) === null && g.factors.length === 1) contrasts.push(...trendContrasts(context, g, pooled, confidence));
+    // Trend contrasts (t distribution only, cheap) for a numeric factor with equally spaced levels, as
+    // before when Tukey's comparisons can be made.
+    if (comparisonProblem("tukey", g.summaries, pooled) === null && g.factors.length === 1) contrasts.push(...trendContrasts(context, g, pooled, confidence));
   }
 
   let tables: { comparisons: ComparisonResult[]; groups: LetterGroup[]; best: BestLevel[] } | undefined;

@@ -16,7 +16,7 @@
  */
 
 import { dunnettTwoSidedCdf, dunnettTwoSidedQuantile } from "../distributions/dunnett.js";
-import { STUDENTIZED_RANGE_MIN_DF, studentizedRangeQuantile, studentizedRangeUpperTail } from "../distributions/studentized-range.js";
+import { STUDENTIZED_RANGE_MAX_MEANS, studentizedRangeQuantile, studentizedRangeUpperTail } from "../distributions/studentized-range.js";
 import { tQuantile, tTwoSidedP } from "../distributions/t-distribution.js";
 import type { GroupSummary } from "./group-summary.js";
 import { bonferroniAdjust, holmAdjust } from "./p-adjust.js";
@@ -67,17 +67,11 @@ const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : nul
 export function comparisonProblem(method: ComparisonMethod, groups: readonly GroupSummary[], pooled: PooledVariance, control?: number): string | null {
   const k = groups.filter((g) => g.n > 0).length;
   switch (method) {
-    case "games-howell": {
+    case "games-howell":
       if (k < 2) return "fewer than two levels have measured runs";
+      if (k > STUDENTIZED_RANGE_MAX_MEANS) return tooManyMeans(k);
       if (groups.some((g) => g.n > 0 && (g.n < 2 || !(g.variance! > 0)))) return "a level has a single run or no spread, so its own variance is unknown";
       return null;
-    }
-    case "tukey": {
-      const problem = pooledProblem(pooled) ?? (k < 2 ? "fewer than two levels have measured runs" : null);
-      if (problem) return problem;
-      if (pooled.df < STUDENTIZED_RANGE_MIN_DF) return `the model leaves ${pooled.df} residual degree of freedom and the studentized range needs at least ${STUDENTIZED_RANGE_MIN_DF}: add replicate runs`;
-      return null;
-    }
     case "dunnett": {
       const problem = pooledProblem(pooled);
       if (problem) return problem;
@@ -86,9 +80,15 @@ export function comparisonProblem(method: ComparisonMethod, groups: readonly Gro
       if (!groups.some((g, i) => i !== control && g.n > 0)) return "no other level has measured runs";
       return null;
     }
+    case "tukey":
+      return pooledProblem(pooled) ?? (k < 2 ? "fewer than two levels have measured runs" : k > STUDENTIZED_RANGE_MAX_MEANS ? tooManyMeans(k) : null);
     default:
       return pooledProblem(pooled) ?? (k < 2 ? "fewer than two levels have measured runs" : null);
   }
+}
+
+function tooManyMeans(k: number): string {
+  return `${k} levels are more than the ${STUDENTIZED_RANGE_MAX_MEANS} the studentized range is computed for`;
 }
 
 /** Tukey HSD (Tukey-Kramer for unequal n) at the given confidence. */
@@ -150,31 +150,13 @@ export function gamesHowell(groups: readonly GroupSummary[], confidence: number)
       const va = ga.variance! / ga.n;
       const vb = gb.variance! / gb.n;
       const diff = ga.mean - gb.mean;
-      const df = welchDf(ga, gb);
+      const df = ((va + vb) * (va + vb)) / ((va * va) / (ga.n - 1) + (vb * vb) / (gb.n - 1));
       const se = Math.sqrt((va + vb) / 2);
       const critical = studentizedRangeQuantile(confidence, k, df);
       const p = studentizedRangeUpperTail(Math.abs(diff) / se, k, df);
       return { a, b, diff, lower: finiteOrNull(diff - critical * se), upper: finiteOrNull(diff + critical * se), p: finiteOrNull(p) };
     }),
   };
-}
-
-/** The Welch-Satterthwaite degrees of freedom of the difference of two level means (each with n >= 2). */
-function welchDf(ga: GroupSummary, gb: GroupSummary): number {
-  const va = ga.variance! / ga.n;
-  const vb = gb.variance! / gb.n;
-  return ((va + vb) * (va + vb)) / ((va * va) / (ga.n - 1) + (vb * vb) / (gb.n - 1));
-}
-
-/**
- * The Games-Howell pairs (indices into `groups`) whose Welch df are below the studentized range's minimum:
- * their rows carry no interval or p-value (each pair is its own test, so the others keep theirs). Call
- * only when `comparisonProblem("games-howell", ...)` is null.
- */
-export function gamesHowellPairsBelowMinDf(groups: readonly GroupSummary[]): { a: number; b: number; df: number }[] {
-  return allPairs(groups)
-    .map(([a, b]) => ({ a, b, df: welchDf(groups[a]!, groups[b]!) }))
-    .filter((pair) => !(pair.df >= STUDENTIZED_RANGE_MIN_DF));
 }
 
 /** Dunnett's two-sided comparisons of every other level with `control`. */

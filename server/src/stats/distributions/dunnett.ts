@@ -20,11 +20,9 @@
  */
 
 import { normalCdf } from "./normal-distribution.js";
-import { gaussLegendre } from "./gauss-legendre.js";
+import { chiScaleNodes, panelNodes } from "./chi-scale-quadrature.js";
 import { tQuantile } from "./t-distribution.js";
-import { logGamma } from "../special/log-gamma.js";
 
-const RULE = gaussLegendre(12);
 // The z integrand is even in z (replace z by -z and use Φ(-x) = 1 - Φ(x)), so only z >= 0 is integrated, twice.
 const Z_NODES = panelNodes(0, 8.5, 6);
 
@@ -100,53 +98,4 @@ function solveQuantile(confidence: number, lambdas: readonly number[], df: numbe
     }
   }
   return (a + b) / 2;
-}
-
-/** Gauss-Legendre nodes on `panels` equal panels of [lo, hi]. */
-function panelNodes(lo: number, hi: number, panels: number): { nodes: Float64Array; weights: Float64Array } {
-  const bounds = Array.from({ length: panels + 1 }, (_, i) => lo + ((hi - lo) * i) / panels);
-  return nodesOnBounds(bounds, (x) => x, () => 1);
-}
-
-/** Quadrature nodes (values of s) and weights (density g_ν(s) ds included) for S = √(χ²_ν/ν). */
-function chiScaleNodes(df: number): { nodes: Float64Array; weights: Float64Array } {
-  // In u = ln s the density is exp(logConst + ν u - ν e^{2u}/2), with its mode at u = 0.
-  const logConst = (df / 2) * Math.log(df / 2) + Math.log(2) - logGamma(df / 2);
-  const drop = (u: number) => df * u - (df * Math.expm1(2 * u)) / 2; // log-density relative to the mode, <= 0
-  const solve = (lo: number, hi: number) => {
-    for (let i = 0; i < 200; i++) {
-      const mid = (lo + hi) / 2;
-      if (drop(mid) > -40) {
-        if (lo < 0) hi = mid;
-        else lo = mid;
-      } else if (lo < 0) lo = mid;
-      else hi = mid;
-    }
-    return (lo + hi) / 2;
-  };
-  const uLow = solve(-1e4, 0);
-  const uHigh = solve(0, 50);
-  const sigma = 1 / Math.sqrt(2 * df);
-  const bounds: number[] = [0];
-  for (let w = 2 * sigma, u = 0; u < uHigh; w *= 2.5) bounds.push((u = Math.min(uHigh, u + w)));
-  const left: number[] = [];
-  for (let w = 2 * sigma, u = 0; u > uLow; w *= 2.5) left.push((u = Math.max(uLow, u - w)));
-  const all = [...left.reverse(), ...bounds];
-  return nodesOnBounds(all, (u) => Math.exp(u), (u) => Math.exp(logConst + drop(u) - df / 2));
-}
-
-function nodesOnBounds(bounds: readonly number[], map: (x: number) => number, density: (x: number) => number): { nodes: Float64Array; weights: Float64Array } {
-  const n = RULE.nodes.length;
-  const nodes = new Float64Array((bounds.length - 1) * n);
-  const weights = new Float64Array((bounds.length - 1) * n);
-  for (let p = 0; p + 1 < bounds.length; p++) {
-    const half = (bounds[p + 1]! - bounds[p]!) / 2;
-    const mid = (bounds[p + 1]! + bounds[p]!) / 2;
-    for (let i = 0; i < n; i++) {
-      const x = mid + half * RULE.nodes[i]!;
-      nodes[p * n + i] = map(x);
-      weights[p * n + i] = half * RULE.weights[i]! * density(x);
-    }
-  }
-  return { nodes, weights };
 }
