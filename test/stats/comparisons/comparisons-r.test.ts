@@ -206,6 +206,17 @@ describe("distributions against R", () => {
     g.x.forEach((x: number, i: number) => close(chiSquareUpperTail(x, g.df[i]), g.upper[i], 1e-12, 1e-300, `pchisq(${x}, ${g.df[i]})`));
   });
 
+  it("Dunnett CDF for one treatment equals the exact |T| identity 2·pt(c, ν) - 1 (R 4.2.2 values), any λ", () => {
+    // One treatment against the control: max |T_i| is |T_ν|. Reference values: R 4.2.2, 2 * pt(c, df) - 1.
+    const exact: [number, number, number][] = [
+      [40, 1, 0.984087820175948],
+      [12, 2, 0.993127066322842],
+      [3, 1, 0.795167235300867],
+      [2.5, 12, 0.972084600428675],
+    ];
+    for (const [c, df, cdf] of exact) for (const lambda of [0.3, 0.7, 0.95]) close(dunnettTwoSidedCdf(c, [lambda], df), cdf, 0, 1e-12, `c = ${c}, df = ${df}, λ = ${lambda}`);
+  });
+
   it("Dunnett CDF equals mvtnorm::pmvt (product correlation, unequal lambdas, df 1-40) within pmvt's error", () => {
     for (const d of R.dunnettCdf) close(dunnettTwoSidedCdf(d.c, d.lambdas, d.df), d.cdf, 0, 3 * d.error + 1e-8, `lambdas ${d.lambdas} df ${d.df}`);
   });

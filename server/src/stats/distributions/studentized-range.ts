@@ -11,10 +11,10 @@
  * Both are 12-point Gauss-Legendre rules on panels. z: 16 equal panels of [-8.5, 8.5] (the normal mass
  * outside is 2e-17), skipping the panels where a bound of the integrand is below 1e-20; the difference
  * Φ(z) - Φ(z - w) is taken between upper tails for z > 0, where both lower tails are near 1. For k = 2
- * the closed form W(w) = 2Φ(w/√2) - 1 is used. s: panels in ln s that follow the chi density
- * (`chi-scale-quadrature.ts`, one standard deviation wide at the mode, doubling outwards) with extra
- * bounds where W(q s) changes fastest (q s = 0.5 to 15), so small ν with large q is resolved as well as
- * the usual case; where q s is so large that 1 - W(q s) < 1e-18, W is 1 without integrating. ν = ∞ (or
+ * the closed form W(w) = 2Φ(w/√2) - 1 is used. s: panels in ln s that follow the chi density, with extra
+ * bounds where W(q s) rises (`chiScaleNodesForStep` in chi-scale-quadrature.ts), so small ν with large q
+ * is resolved as well as the usual case; where q s is so large that 1 - W(q s) < 1e-18, W is 1 without
+ * integrating. ν = ∞ (or
  * above 1e7, a point mass to double precision) is W itself. The derivative comes from the same pass,
  * W'(w) = k(k-1) ∫ φ(z) φ(z - w) [Φ(z) - Φ(z - w)]^(k-2) dz, and the quantile is found by safeguarded
  * Newton steps in ln q (`monotone-root.ts`), starting from the Bonferroni bound √2·t(1 - (1-p)/(k(k-1)), ν).
@@ -29,7 +29,7 @@
  * upper tail is 1 - CDF, so p-values below 1e-10 are not resolved: they are floored there.
  */
 
-import { chiScale, chiScaleNodesOn, chiScalePanels, type ChiScale, type Nodes } from "./chi-scale-quadrature.js";
+import { chiScaleNodesForStep } from "./chi-scale-quadrature.js";
 import { gaussLegendre } from "./gauss-legendre.js";
 import { solveIncreasing } from "./monotone-root.js";
 import { normalQuantile, normalUpperTail } from "./normal-distribution.js";
@@ -233,46 +233,13 @@ function certainRange(k: number): number {
   return -Math.SQRT2 * normalQuantile(1e-18 / (k * (k - 1)));
 }
 
-/**
- * Values of W's argument at which the outer rule puts panel bounds: W(q s) rises from near 0 to 1 over
- * these, about one doubling per panel (each panel is then smooth enough for its 12 points).
- */
-const W_FEATURES = [0.5, 1, 2, 4, 8, 16];
-
-// The chi-scale nodes of the last (q, df) asked for: a quantile's Newton steps move q, a CDF table keeps df.
-let lastScale: ChiScale | undefined;
-
-function scaleOf(df: number): ChiScale {
-  if (lastScale?.df !== df) lastScale = chiScale(df);
-  return lastScale;
-}
-
-function outerNodes(q: number, df: number): Nodes {
-  const scale = scaleOf(df);
-  // Panels of two standard deviations of ln S at the mode, doubling outwards (within 5e-13 of a 400-panel
-  // 16-point rule over the whole range for k 2-10, ν 1-1e5, q 0.3-40).
-  const bounds = chiScalePanels(scale, 2, 2);
-  for (const w of W_FEATURES) {
-    const u = Math.log(w / q);
-    if (u > scale.uLow && u < scale.uHigh) bounds.push(u);
-  }
-  bounds.sort((a, b) => a - b);
-  const rule = chiScaleNodesOn(scale, bounds);
-  // The weights integrate the density to 1 up to the rounding of its normalising constant, which at large
-  // ν is a difference of two large logarithms (5e-11 relative at ν = 1e5): dividing by their sum removes it.
-  let total = 0;
-  for (let j = 0; j < rule.weights.length; j++) total += rule.weights[j]!;
-  for (let j = 0; j < rule.weights.length; j++) rule.weights[j] = rule.weights[j]! / total;
-  return rule;
-}
-
 /** P(Q <= q) and its derivative in q, for q > 0. */
 function cdfAndDensity(q: number, k: number, df: number, out: ValueAndDensity): void {
   if (df === Infinity || df > POINT_MASS_DF) {
     range(q, k, out);
     return;
   }
-  const { nodes, weights } = outerNodes(q, df);
+  const { nodes, weights } = chiScaleNodesForStep(df, q);
   const certain = certainRange(k);
   const inner: ValueAndDensity = { cdf: 0, density: 0 };
   let cdf = 0;
