@@ -15,7 +15,7 @@
  * bounds where W(q s) rises (`chiScaleNodesForStep` in chi-scale-quadrature.ts), so small ν with large q
  * is resolved as well as the usual case; where q s is so large that 1 - W(q s) < 1e-18, W is 1 without
  * integrating. ν = ∞ (or above 1e7, a point mass to double precision) is W itself. W and its derivative
- * for k >= 3 come from an interpolation table filled from the integrals (see `RangeTable`); the
+ * for k >= 3 come from an interpolation table filled from the integrals (`step-table.ts`); the
  * derivative is W'(w) = k(k-1) ∫ φ(z) φ(z - w) [Φ(z) - Φ(z - w)]^(k-2) dz, from the same pass. The
  * quantile is found by safeguarded Newton steps in ln q (`monotone-root.ts`), starting from the
  * Bonferroni bound √2·t(1 - (1-p)/(k(k-1)), ν).
@@ -34,6 +34,7 @@
 import { chiScaleNodesForStep } from "./chi-scale-quadrature.js";
 import { gaussLegendre } from "./gauss-legendre.js";
 import { solveIncreasing } from "./monotone-root.js";
+import { interpolateStep, stepTable, type StepTable, type ValueAndSlope } from "./step-table.js";
 import { normalQuantile, normalUpperTail } from "./normal-distribution.js";
 import { tQuantile } from "./t-distribution.js";
 
@@ -92,12 +93,6 @@ function wholePower(x: number, n: number): number {
   return result;
 }
 
-/** What one pass gives: a CDF value and its derivative. */
-interface ValueAndDensity {
-  cdf: number;
-  density: number;
-}
-
 /**
  * The first z panel that can matter for k means: left of it, k φ(z) Φ(z)^(k-1) (a bound of the integrand,
  * increasing there) times the panel width stays below `NEGLIGIBLE`.
@@ -114,7 +109,7 @@ function firstPanel(k: number): number {
 const FIRST_PANEL = new Map<number, number>();
 
 /** The CDF and density of the range of k standard normals at w > 0 (k >= 3), from one pass over the z nodes. */
-function rangeOfNormals(w: number, k: number, out: ValueAndDensity): void {
+function rangeOfNormals(w: number, k: number, out: ValueAndSlope): void {
   let first = FIRST_PANEL.get(k);
   if (first === undefined) FIRST_PANEL.set(k, (first = firstPanel(k)));
   let cdf = 0;
@@ -135,96 +130,37 @@ function rangeOfNormals(w: number, k: number, out: ValueAndDensity): void {
       density += Z_WEIGHTED_DENSITY[at]! * power * normalDensity(shifted);
     }
   }
-  out.cdf = k * cdf;
-  out.density = k * (k - 1) * density;
+  out.value = k * cdf;
+  out.slope = k * (k - 1) * density;
 }
 
 /** W(w) and W'(w) for k means at w > 0: closed form for two means, else the interpolation table of k. */
-function range(w: number, k: number, out: ValueAndDensity): void {
+function range(w: number, k: number, out: ValueAndSlope): void {
   if (k === 2) {
     // The range of two standard normals is √2 |Z|.
-    out.cdf = 1 - 2 * normalUpperTail(w / Math.SQRT2);
-    out.density = Math.SQRT2 * normalDensity(w / Math.SQRT2);
+    out.value = 1 - 2 * normalUpperTail(w / Math.SQRT2);
+    out.slope = Math.SQRT2 * normalDensity(w / Math.SQRT2);
     return;
   }
-  interpolate(tableOf(k), k, w, out);
+  interpolateStep(tableOf(k), w, out);
 }
 
-/**
- * W and W' of k means tabulated for interpolation: on each unit interval [m, m + 1) of [0, `top`), at
- * `NODES_PER_UNIT` Chebyshev points of the first kind, each interval filled when first needed. The outer
- * integral needs W at some hundred values of q s per CDF, and a quantile or a family of pairs at many
- * more with the same k, all within a few unit intervals: interpolating costs some twenty multiplications
- * where the inner integral costs some 150 normal tail evaluations. On each interval the barycentric
- * formula (Berrut & Trefethen 2004, "Barycentric Lagrange interpolation", SIAM Review 46, 501-517) is
- * exact at the nodes and, W being smooth (entire), within 5e-14 of the integral in between for k up to
- * 40 (see `STUDENTIZED_RANGE_MAX_MEANS`; the tests check the result against R's integrals).
- */
-interface RangeTable {
-  readonly top: number;
-  /** Per unit interval: 1 once its nodes are filled. */
-  readonly filled: Uint8Array;
-  readonly nodes: Float64Array;
-  readonly cdf: Float64Array;
-  readonly density: Float64Array;
-}
-
-const NODES_PER_UNIT = 16;
-const CHEBYSHEV_T = Float64Array.from({ length: NODES_PER_UNIT }, (_, j) => Math.cos(((2 * j + 1) * Math.PI) / (2 * NODES_PER_UNIT)));
-const BARYCENTRIC = Float64Array.from({ length: NODES_PER_UNIT }, (_, j) => (j % 2 === 0 ? 1 : -1) * Math.sin(((2 * j + 1) * Math.PI) / (2 * NODES_PER_UNIT)));
-const TABLES = new Map<number, RangeTable>();
+// W and W' of each k, tabulated on [0, certainRange(k)) for interpolation (step-table.ts): the outer
+// integral asks for W at some hundred values of q s per CDF, a quantile or a family of pairs at many more
+// with the same k, and each direct value costs some 150 normal tail evaluations.
+// Width 1: within 5e-14 of the integral for k up to 40 (at 0.5 the first use of a k would cost twice as much).
+const RANGE_TABLE_WIDTH = 1;
+const TABLES = new Map<number, StepTable>();
 const TABLES_LIMIT = 64;
 
-function tableOf(k: number): RangeTable {
+function tableOf(k: number): StepTable {
   let table = TABLES.get(k);
-  if (table) return table;
-  const top = Math.ceil(certainRange(k));
-  const size = top * NODES_PER_UNIT;
-  table = { top, filled: new Uint8Array(top), nodes: new Float64Array(size), cdf: new Float64Array(size), density: new Float64Array(size) };
-  if (TABLES.size >= TABLES_LIMIT) TABLES.clear();
-  TABLES.set(k, table);
+  if (!table) {
+    table = stepTable(certainRange(k), RANGE_TABLE_WIDTH, (w, out) => rangeOfNormals(w, k, out));
+    if (TABLES.size >= TABLES_LIMIT) TABLES.clear();
+    TABLES.set(k, table);
+  }
   return table;
-}
-
-function fillInterval(table: RangeTable, k: number, m: number): void {
-  const out: ValueAndDensity = { cdf: 0, density: 0 };
-  for (let j = 0; j < NODES_PER_UNIT; j++) {
-    const at = m * NODES_PER_UNIT + j;
-    const w = m + 0.5 * (1 + CHEBYSHEV_T[j]!);
-    rangeOfNormals(w, k, out);
-    table.nodes[at] = w;
-    table.cdf[at] = out.cdf;
-    table.density[at] = out.density;
-  }
-  table.filled[m] = 1;
-}
-
-function interpolate(table: RangeTable, k: number, w: number, out: ValueAndDensity): void {
-  if (w >= table.top) {
-    out.cdf = 1;
-    out.density = 0;
-    return;
-  }
-  const m = Math.floor(w);
-  if (table.filled[m] === 0) fillInterval(table, k, m);
-  const base = m * NODES_PER_UNIT;
-  let numerator = 0;
-  let slope = 0;
-  let denominator = 0;
-  for (let j = 0; j < NODES_PER_UNIT; j++) {
-    const difference = w - table.nodes[base + j]!;
-    if (difference === 0) {
-      out.cdf = table.cdf[base + j]!;
-      out.density = table.density[base + j]!;
-      return;
-    }
-    const term = BARYCENTRIC[j]! / difference;
-    numerator += term * table.cdf[base + j]!;
-    slope += term * table.density[base + j]!;
-    denominator += term;
-  }
-  out.cdf = numerator / denominator;
-  out.density = slope / denominator;
 }
 
 /**
@@ -236,14 +172,14 @@ function certainRange(k: number): number {
 }
 
 /** P(Q <= q) and its derivative in q, for q > 0. */
-function cdfAndDensity(q: number, k: number, df: number, out: ValueAndDensity): void {
+function cdfAndDensity(q: number, k: number, df: number, out: ValueAndSlope): void {
   if (df === Infinity || df > POINT_MASS_DF) {
     range(q, k, out);
     return;
   }
   const { nodes, weights } = chiScaleNodesForStep(df, q);
   const certain = certainRange(k);
-  const inner: ValueAndDensity = { cdf: 0, density: 0 };
+  const inner: ValueAndSlope = { value: 0, slope: 0 };
   let cdf = 0;
   let density = 0;
   for (let j = 0; j < nodes.length; j++) {
@@ -257,11 +193,11 @@ function cdfAndDensity(q: number, k: number, df: number, out: ValueAndDensity): 
       continue;
     }
     range(q * s, k, inner);
-    cdf += weight * inner.cdf;
-    density += weight * s * inner.density;
+    cdf += weight * inner.value;
+    density += weight * s * inner.slope;
   }
-  out.cdf = cdf;
-  out.density = density;
+  out.value = cdf;
+  out.slope = density;
 }
 
 function usable(k: number, df: number): boolean {
@@ -273,9 +209,9 @@ export function studentizedRangeCdf(q: number, k: number, df: number): number {
   if (!usable(k, df) || Number.isNaN(q)) return NaN;
   if (q <= 0) return 0;
   if (q === Infinity) return 1;
-  const out: ValueAndDensity = { cdf: 0, density: 0 };
+  const out: ValueAndSlope = { value: 0, slope: 0 };
   cdfAndDensity(q, k, df, out);
-  return Number.isFinite(out.cdf) ? Math.min(1, Math.max(0, out.cdf)) : NaN;
+  return Number.isFinite(out.value) ? Math.min(1, Math.max(0, out.value)) : NaN;
 }
 
 /**
@@ -305,13 +241,13 @@ export function studentizedRangeQuantile(p: number, k: number, df: number): numb
 }
 
 function solveQuantile(p: number, k: number, df: number): number {
-  const out: ValueAndDensity = { cdf: 0, density: 0 };
+  const out: ValueAndSlope = { value: 0, slope: 0 };
   const start = Math.SQRT2 * tQuantile(1 - (1 - p) / (k * (k - 1)), df);
   const u = solveIncreasing(
     (v) => {
       const q = Math.exp(v);
       cdfAndDensity(q, k, df, out);
-      return { value: out.cdf - p, slope: Math.max(q * out.density, 1e-300) };
+      return { value: out.value - p, slope: Math.max(q * out.slope, 1e-300) };
     },
     Math.log(start > 0 && Number.isFinite(start) ? start : 3.5),
     1e-13,
