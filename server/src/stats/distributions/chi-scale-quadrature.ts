@@ -26,8 +26,8 @@ export function panelNodes(lo: number, hi: number, panels: number): Nodes {
   return nodesOnBounds(bounds, (x) => x, () => 1);
 }
 
-/** Where the density of ln S matters, and that density: what a caller needs to place its own panels. */
-export interface ChiScale {
+/** Where the density of ln S matters, and that density. */
+interface ChiScale {
   readonly df: number;
   /** ln S where the log-density has fallen by 40 below its mode (at 0), below and above. */
   readonly uLow: number;
@@ -38,7 +38,7 @@ export interface ChiScale {
   readonly logDensity: (u: number) => number;
 }
 
-export function chiScale(df: number): ChiScale {
+function chiScale(df: number): ChiScale {
   // In u = ln s the density is exp(logConst + ν u - ν e^{2u}/2), with its mode at u = 0.
   const logConst = (df / 2) * Math.log(df / 2) + Math.log(2) - logGamma(df / 2);
   const drop = (u: number) => df * u - (df * Math.expm1(2 * u)) / 2; // log-density relative to the mode, <= 0
@@ -56,13 +56,13 @@ export function chiScale(df: number): ChiScale {
   return { df, uLow: solve(-1e4, 0), uHigh: solve(0, 50), sigma: 1 / Math.sqrt(2 * df), logDensity: (u) => logConst + drop(u) - df / 2 };
 }
 
-/** Panel bounds in u from `uLow` to `uHigh`: `first` standard deviations either side of the mode, each next one `growth` times wider. */
-export function chiScalePanels(scale: ChiScale, first: number, growth: number): number[] {
+/** Panel bounds in u from `uLow` to `uHigh`: two standard deviations either side of the mode, each next one twice as wide. */
+function chiScalePanels(scale: ChiScale): number[] {
   const { uLow, uHigh, sigma } = scale;
   const bounds: number[] = [0];
-  for (let w = first * sigma, u = 0; u < uHigh; w *= growth) bounds.push((u = Math.min(uHigh, u + w)));
+  for (let w = 2 * sigma, u = 0; u < uHigh; w *= 2) bounds.push((u = Math.min(uHigh, u + w)));
   const left: number[] = [];
-  for (let w = first * sigma, u = 0; u > uLow; w *= growth) left.push((u = Math.max(uLow, u - w)));
+  for (let w = 2 * sigma, u = 0; u > uLow; w *= 2) left.push((u = Math.max(uLow, u - w)));
   return [...left.reverse(), ...bounds];
 }
 
@@ -80,7 +80,7 @@ let lastScale: ChiScale | undefined;
 /**
  * Nodes and weights for ∫ g_ν(s) F(c s) ds with F rising over c s in [0.5, 16] (see `STEP_POINTS`):
  * panels of two standard deviations of ln S at the mode, doubling outwards, plus bounds at the step
- * points. For two means of the studentized range (F exact) this is within 1e-13 of a 400-panel 16-point
+ * points. For two means of the studentized range (F exact) this is within 5e-13 of a 400-panel 16-point
  * rule over the whole range for ν 1 to 1e5 and c 0.3 to 40. The weights are divided by their sum: they
  * integrate the density to 1 only up to the rounding of its normalising constant, a difference of two
  * large logarithms at large ν (5e-11 relative at ν = 1e5).
@@ -88,7 +88,7 @@ let lastScale: ChiScale | undefined;
 export function chiScaleNodesForStep(df: number, c: number): Nodes {
   if (lastScale?.df !== df) lastScale = chiScale(df);
   const scale = lastScale;
-  const bounds = chiScalePanels(scale, 2, 2);
+  const bounds = chiScalePanels(scale);
   for (const t of STEP_POINTS) {
     const u = Math.log(t / c);
     if (u > scale.uLow && u < scale.uHigh) bounds.push(u);
@@ -102,7 +102,7 @@ export function chiScaleNodesForStep(df: number, c: number): Nodes {
 }
 
 /** Nodes in s (= e^u) and weights with the density of S folded in, on the given increasing panel bounds in u. */
-export function chiScaleNodesOn(scale: ChiScale, bounds: readonly number[]): Nodes {
+function chiScaleNodesOn(scale: ChiScale, bounds: readonly number[]): Nodes {
   return nodesOnBounds(bounds, (u) => Math.exp(u), (u) => Math.exp(scale.logDensity(u)));
 }
 
