@@ -14,7 +14,7 @@ import {
 } from "../../server/src/stats/special/incomplete-beta.js";
 import { fCdf, fQuantile, fUpperTail } from "../../server/src/stats/distributions/f-distribution.js";
 import { tCdf, tQuantile, tTwoSidedP, tUpperTail } from "../../server/src/stats/distributions/t-distribution.js";
-import { normalCdf, normalQuantile, normalUpperTail } from "../../server/src/stats/distributions/normal-distribution.js";
+import { normalCdf, normalDensity, normalQuantile, normalUpperTail } from "../../server/src/stats/distributions/normal-distribution.js";
 
 type Row = Record<string, number>;
 const fixture = JSON.parse(readFileSync(path.resolve("test/stats/fixtures/r/distributions.json"), "utf8")) as Record<
@@ -111,6 +111,19 @@ describe("stats distributions against R 4.2.2 (test/stats/fixtures/r/distributio
       assertClose(normalCdf(r.z), r.lower, 1e-14, `pnorm(${r.z})`);
       assertClose(normalUpperTail(r.z), r.upper, 1e-14, `pnorm(${r.z}, lower = FALSE)`);
     }
+  });
+
+  it("normal density: 1e-15 relative (R 4.2.2 dnorm, values below)", () => {
+    const dnorm: [number, number][] = [
+      [-8.5, 8.1662356316695502e-17],
+      [-3, 0.0044318484119380075],
+      [-1, 0.24197072451914337],
+      [0, 0.3989422804014327],
+      [0.5, 0.35206532676429952],
+      [2.25, 0.031739651835667418],
+      [6, 6.0758828498232861e-9],
+    ];
+    for (const [z, value] of dnorm) assertClose(normalDensity(z), value, 1e-15, `dnorm(${z})`);
   });
 
   it("normal quantile: 1e-15 relative", () => {

@@ -23,13 +23,14 @@
  * stays of product form.
  */
 
-import { normalCdf, normalQuantile } from "./normal-distribution.js";
+import { normalCdf, normalDensity, normalQuantile } from "./normal-distribution.js";
 import { interpolateStep, stepTable, type StepTable, type ValueAndSlope } from "./step-table.js";
 import { chiScaleNodesForStep, panelNodes } from "./chi-scale-quadrature.js";
 import { tQuantile } from "./t-distribution.js";
 
 // The z integrand is even in z (replace z by -z and use Φ(-x) = 1 - Φ(x)), so only z >= 0 is integrated, twice.
 const Z_NODES = panelNodes(0, 8.5, 6);
+const Z_WEIGHTED_DENSITY = Z_NODES.nodes.map((z, k) => Z_NODES.weights[k]! * normalDensity(z));
 
 /** Returns P(max |T_i| <= c) for the product-correlation structure `lambdas` (0 <= λ_i < 1) and ν df. NaN when undefined. */
 export function dunnettTwoSidedCdf(c: number, lambdas: readonly number[], df: number): number {
@@ -58,13 +59,13 @@ function innerProbability(t: number, lambdas: readonly number[], scales: readonl
   let total = 0;
   for (let k = 0; k < Z_NODES.nodes.length; k++) {
     const z = Z_NODES.nodes[k]!;
-    let product = Math.exp(-0.5 * z * z) / Math.sqrt(2 * Math.PI);
+    let product = Z_WEIGHTED_DENSITY[k]!;
     for (let i = 0; i < lambdas.length && product > 0; i++) {
       const l = lambdas[i]!;
       const s = scales[i]!;
       product *= normalCdf((t - l * z) / s) - normalCdf((-t - l * z) / s);
     }
-    total += Z_NODES.weights[k]! * product;
+    total += product;
   }
   out.value = 2 * total;
   out.slope = 0;

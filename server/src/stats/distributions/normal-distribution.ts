@@ -1,5 +1,5 @@
 /**
- * Standard normal distribution: lower tail, upper tail and quantile.
+ * Standard normal distribution: density, lower tail, upper tail and quantile.
  *
  * Method: the tails use W. J. Cody's rational Chebyshev approximations (Cody 1969, "Rational Chebyshev
  * approximations for the error function", Math. Comp. 23, 631-637; coefficients as published with his
@@ -26,6 +26,11 @@ const D = [
 ];
 const P = [0.21589853405795699, 0.1274011611602473639, 0.022235277870649807, 0.001421619193227893466, 2.9112874951168792e-5, 0.02307344176494017303];
 const Q = [1.28426009614491121, 0.468238212480865118, 0.0659881378689285515, 0.00378239633202758244, 7.29751555083966205e-5];
+
+/** Returns the standard normal density φ(z). */
+export function normalDensity(z: number): number {
+  return INV_SQRT_2PI * Math.exp(-0.5 * z * z);
+}
 
 /**
  * Returns P(Z <= z) for a standard normal Z. Accurate to about 1e-15 relative, also deep in the lower

@@ -31,17 +31,15 @@
  * 1 - CDF, so p-values below 1e-10 are not resolved: they are floored there.
  */
 
-import { chiScaleNodesForStep } from "./chi-scale-quadrature.js";
-import { gaussLegendre } from "./gauss-legendre.js";
+import { chiScaleNodesForStep, panelNodes } from "./chi-scale-quadrature.js";
 import { solveIncreasing } from "./monotone-root.js";
 import { interpolateStep, stepTable, type StepTable, type ValueAndSlope } from "./step-table.js";
-import { normalQuantile, normalUpperTail } from "./normal-distribution.js";
+import { normalDensity, normalQuantile, normalUpperTail } from "./normal-distribution.js";
 import { tQuantile } from "./t-distribution.js";
 
 /** The smallest upper-tail probability reported (the CDF is accurate to about 1e-12 absolute). */
 export const STUDENTIZED_RANGE_P_FLOOR = 1e-10;
 
-const INV_SQRT_2PI = 0.3989422804014327;
 /**
  * The most means the distribution is computed for. Its accuracy is tested against R's integrals up to 20
  * means; while it was written, the interpolation was also compared with the direct integral up to 40
@@ -57,30 +55,17 @@ const NEGLIGIBLE_WEIGHT = 1e-17;
 /** A bound on a panel's part of the inner integral below which the panel is skipped. */
 const NEGLIGIBLE = 1e-20;
 
-// The inner integral's fixed z panels, with φ(z)·weight, Φ(z) and 1 - Φ(z) at each node computed once.
+// The inner integral's fixed z panels (12-point rules, laid out panel by panel), with φ(z)·weight, Φ(z)
+// and 1 - Φ(z) at each node computed once.
 const Z_PANELS = 16;
 const Z_LOW = -8.5;
 const Z_WIDTH = 17 / Z_PANELS;
-const RULE = gaussLegendre(12);
-const POINTS = RULE.nodes.length;
-const Z_NODES = new Float64Array(Z_PANELS * POINTS);
-const Z_WEIGHTED_DENSITY = new Float64Array(Z_PANELS * POINTS);
-const Z_LOWER = new Float64Array(Z_PANELS * POINTS);
-const Z_UPPER = new Float64Array(Z_PANELS * POINTS);
-for (let p = 0; p < Z_PANELS; p++) {
-  for (let i = 0; i < POINTS; i++) {
-    const at = p * POINTS + i;
-    const z = Z_LOW + Z_WIDTH * (p + 0.5 + 0.5 * RULE.nodes[i]!);
-    Z_NODES[at] = z;
-    Z_WEIGHTED_DENSITY[at] = 0.5 * Z_WIDTH * RULE.weights[i]! * INV_SQRT_2PI * Math.exp(-0.5 * z * z);
-    Z_LOWER[at] = normalUpperTail(-z);
-    Z_UPPER[at] = normalUpperTail(z);
-  }
-}
-
-function normalDensity(z: number): number {
-  return INV_SQRT_2PI * Math.exp(-0.5 * z * z);
-}
+const Z = panelNodes(Z_LOW, Z_LOW + Z_PANELS * Z_WIDTH, Z_PANELS);
+const POINTS = Z.nodes.length / Z_PANELS;
+const Z_NODES = Z.nodes;
+const Z_WEIGHTED_DENSITY = Z.nodes.map((z, i) => Z.weights[i]! * normalDensity(z));
+const Z_LOWER = Z.nodes.map((z) => normalUpperTail(-z));
+const Z_UPPER = Z.nodes.map((z) => normalUpperTail(z));
 
 /** x^n for a whole n >= 0, by repeated squaring (Math.pow is several times slower and no more accurate here). */
 function wholePower(x: number, n: number): number {
