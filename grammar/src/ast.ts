@@ -196,7 +196,19 @@ export interface RunsTable {
   /** Index in `columns` of the first response column; `columns.length` when the header has no `|`. */
   readonly responseStart: number;
   readonly headerHasPipe: boolean;
+  /**
+   * The rows, column-wise. For a plain body (`plainBody`) they are built on first access (a getter,
+   * computed once): a consumer that needs no cell span or text, such as the model builder's plain reader,
+   * never pays for them.
+   */
   readonly rows: RunRows;
+  /** How many rows the table has (`rows.count`, known without building `rows`). */
+  readonly rowCount: number;
+  /**
+   * Set when the body `[start, end)` is plain (`plain-runs-body.ts`): ASCII, unquoted cells, no
+   * `excluded`, every row's `|` agreeing with the header's. Such a body has no syntax problem.
+   */
+  readonly plainBody?: Span;
 }
 
 /** A problem found while reading the text: always code `syntax`, with a message that says how to fix it. */

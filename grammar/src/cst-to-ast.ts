@@ -21,6 +21,7 @@ import type {
   PlanBlock,
   PlanSetting,
   ResponseDecl,
+  RunRows,
   RunsTable,
   Span,
   SpecLimits,
@@ -47,6 +48,7 @@ import type {
   TextValueCstNode,
   TrialFileCstNode,
 } from "./cst.generated.js";
+import type { PlainRunsBody } from "./plain-runs-body.js";
 import { runsBodyProblems, scanRunsTable, unquote, type RunsBodyScan } from "./runs-scanner.js";
 import { isTopLevelKeyword } from "./tokens.js";
 
@@ -420,23 +422,41 @@ function runsTable(b: Builder, node: RunsTableCstNode): RunsTable | undefined {
   const body = firstReal(c.RunsBody);
   const bodyStart = body === undefined ? end : body.startOffset;
   const bodyEnd = body === undefined ? end : tokenEnd(body);
-  // The lexer's `RunsBody` matcher has already scanned the body (one pass finds its end and its rows);
-  // scan here only for a token that came without that payload.
-  const payload = body?.payload as RunsBodyScan | undefined;
-  const scan = payload !== undefined && payload.end === bodyEnd ? payload : scanRunsTable(b.source, bodyStart, bodyEnd);
-  for (const p of runsBodyProblems(scan, headerHasPipe)) b.problems.push(p);
-  const rows = scan.rows;
-  // Rows are in text order and each ends before the next starts, so the last row ends furthest.
-  if (rows.count > 0) end = Math.max(end, rows.rowEnd[rows.count - 1]!);
-  return {
-    kind: "runs",
+  // The lexer's `RunsBody` matcher has already read the body (one pass finds its end and its rows, or for
+  // a plain body only its end); scan here only for a token that came without that payload.
+  const payload = body?.payload as RunsBodyScan | PlainRunsBody | undefined;
+  const head = (end: number) => ({
+    kind: "runs" as const,
     span: { start: keyword.startOffset, end },
     keywordSpan: tokenSpan(keyword),
     columns,
     responseStart: headerHasPipe ? responseStart : columns.length,
     headerHasPipe,
-    rows,
-  };
+  });
+  if (payload !== undefined && payload.end === bodyEnd && !("rows" in payload)) {
+    const withPipe = payload.rowsWithPipe;
+    // A plain body has no problem of its own; one whose rows disagree with the header about `|` is read
+    // in full below, for the problems' places.
+    if (headerHasPipe ? withPipe === payload.rowCount : withPipe === 0) {
+      if (payload.lastRowEnd >= 0) end = Math.max(end, payload.lastRowEnd);
+      const source = b.source;
+      let rows: RunRows | undefined;
+      return {
+        ...head(end),
+        get rows(): RunRows {
+          return (rows ??= scanRunsTable(source, bodyStart, bodyEnd).rows);
+        },
+        rowCount: payload.rowCount,
+        plainBody: { start: bodyStart, end: bodyEnd },
+      };
+    }
+  }
+  const scan = payload !== undefined && payload.end === bodyEnd && "rows" in payload ? payload : scanRunsTable(b.source, bodyStart, bodyEnd);
+  for (const p of runsBodyProblems(scan, headerHasPipe)) b.problems.push(p);
+  const rows = scan.rows;
+  // Rows are in text order and each ends before the next starts, so the last row ends furthest.
+  if (rows.count > 0) end = Math.max(end, rows.rowEnd[rows.count - 1]!);
+  return { ...head(end), rows, rowCount: rows.count };
 }
 
 function textBlockDecl(b: Builder, node: TextBlockDeclCstNode): TextBlockDecl | undefined {

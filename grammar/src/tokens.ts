@@ -11,6 +11,7 @@
  * (the keyword-versus-identifier pattern from the Chevrotain examples).
  */
 import { createToken, Lexer, type CustomPatternMatcherReturn, type TokenType } from "chevrotain";
+import { scanPlainRunsBody } from "./plain-runs-body.js";
 import { scanRunsTable } from "./runs-scanner.js";
 import { TOP_LEVEL_KEYWORDS, lineStartsWithTopLevelKeyword } from "./top-level-keywords.js";
 
@@ -110,7 +111,8 @@ function matchTextBlock(wantTerminated: boolean) {
 function matchRunsBody(text: string, offset: number): CustomPatternMatcherReturn | null {
   const c = text.charCodeAt(offset);
   if (c !== CH_LF && c !== CH_CR) return null;
-  const scan = scanRunsTable(text, offset);
+  // Most bodies are plain: the quick pass finds their end and stores nothing per row (plain-runs-body.ts).
+  const scan = scanPlainRunsBody(text, offset) ?? scanRunsTable(text, offset);
   const match = [text.slice(offset, scan.end)] as CustomPatternMatcherReturn;
   match.payload = scan;
   return match;

@@ -1,4 +1,4 @@
-import type { DecimalNumber, FactorDecl, Name, PlanSetting, RunRows, Span, TrialFile } from "../../../grammar/src/ast.js";
+import type { DecimalNumber, FactorDecl, Name, PlanSetting, RunRows, RunsTable, Span, TrialFile } from "../../../grammar/src/ast.js";
 import { cellText } from "../../../grammar/src/runs-table.js";
 import { type DecimalScan, emptyScan, rangeReason, scanDecimal, scanValue } from "../stats/decimal/parse-decimal.js";
 import { type DecimalColumn, decimalColumn, storeDecimal, storePlainDecimal } from "../stats/decimal/center-decimals.js";
@@ -20,6 +20,7 @@ import { definingRelation } from "../stats/two-level/aliases.js";
 import { wordOf } from "../stats/two-level/words.js";
 import { type Diagnostic, DiagnosticSink, diagnostic } from "./diagnostics.js";
 import { resolvePairwise } from "./resolve-pairwise.js";
+import { PlainColumn, type PlainRunsLayout, readPlainRuns } from "./read-plain-runs.js";
 
 /** Analysis settings that can come from outside the file: editor settings (defaults) or CLI flags (overrides). */
 export interface AnalysisSettings {
@@ -553,7 +554,14 @@ function readRuns(
   sink: DiagnosticSink,
 ): DesignRuns {
   const table = file.runs;
-  const count = table?.rows.count ?? 0;
+  const count = table?.rowCount ?? 0;
+  const roles = table ? mapColumns(table.columns, table.responseStart, factors, covariates, responses, sink) : [];
+  // A plain body (the usual large run sheet) is read in one pass straight into these columns when every
+  // row is regular (read-plain-runs.ts); otherwise, or when that reader declines, the general path below.
+  if (table?.plainBody) {
+    const plain = readPlainTable(file.source, table, table.plainBody, roles, factors, covariates, responses);
+    if (plain) return plain;
+  }
   const levels = factors.map(() => new Int32Array(count).fill(-1));
   const covariateCells = covariates.map(() => new Int32Array(count).fill(-1));
   const covariateStatus = covariates.map(() => new Uint8Array(count).fill(ValueStatus.Invalid));
@@ -581,7 +589,6 @@ function readRuns(
   // No table yet is a normal stage of planning, not a problem worth a diagnostic.
   if (!table) return runs;
 
-  const roles = mapColumns(table.columns, table.responseStart, factors, covariates, responses, sink);
   const source = file.source;
   const rows = table.rows;
   const { cellOffset, pipeCell, cellStart, cellEnd } = rows;
@@ -776,6 +783,74 @@ function readRuns(
     if (mark || pendingInRow) reportPendingAndExcluded(r, runs, responses, mark, idColumn >= 0, sink);
   }
   return runs;
+}
+
+/**
+ * The runs of a plain table read by `readPlainRuns`, in the shape the general path gives the same rows
+ * (every row regular and clean: levels known, values measured, ids increasing); `undefined` when the
+ * reader declined. Cell indices are computed, not read: every row has exactly the header's cells, so cell
+ * `k` of row `r` is global cell `r * columns + k` of the table's `RunRows`, built only if asked for.
+ */
+function readPlainTable(
+  source: string,
+  table: RunsTable,
+  body: Span,
+  roles: readonly ColumnRole[],
+  factors: readonly DesignFactor[],
+  covariates: readonly DesignCovariate[],
+  responses: readonly DesignResponse[],
+): DesignRuns | undefined {
+  const count = table.rowCount;
+  const layout: PlainRunsLayout = {
+    kinds: roles.map((role) =>
+      role.kind === "id" ? PlainColumn.Id : role.kind === "factor" ? PlainColumn.Factor : role.kind === "unknown" ? PlainColumn.Skip : PlainColumn.Value,
+    ),
+    levelNames: roles.map((role) => (role.kind === "factor" ? factors[role.index]!.levels.map((l) => l.name) : [])),
+    pipeAt: table.headerHasPipe ? table.responseStart : -1,
+  };
+  const read = readPlainRuns(source, body.start, body.end, count, layout);
+  if (!read) return undefined;
+  const columns = roles.length;
+  const cellsOf = (column: number): Int32Array => {
+    const cells = new Int32Array(count);
+    for (let r = 0, cell = column; r < count; r++, cell += columns) cells[r] = cell;
+    return cells;
+  };
+  const columnOf = (kind: "factor" | "covariate" | "response", index: number) => roles.findIndex((role) => role.kind === kind && role.index === index);
+  const levels = factors.map((_, i) => {
+    const column = columnOf("factor", i);
+    return column >= 0 ? read.levels[column]! : new Int32Array(count).fill(-1);
+  });
+  const values = (kind: "covariate" | "response", n: number) => {
+    const cells: Int32Array[] = [];
+    const status: Uint8Array[] = [];
+    const stored: DecimalColumn[] = [];
+    for (let i = 0; i < n; i++) {
+      const column = columnOf(kind, i);
+      cells.push(column >= 0 ? cellsOf(column) : new Int32Array(count).fill(-1));
+      status.push(column >= 0 ? new Uint8Array(count) /* ValueStatus.Measured is 0 */ : new Uint8Array(count).fill(ValueStatus.Invalid));
+      stored.push(column >= 0 ? read.values[column]! : decimalColumn(count));
+    }
+    return { cells, status, stored };
+  };
+  const covariateColumns = values("covariate", covariates.length);
+  const responseColumns = values("response", responses.length);
+  return attachRunTexts({
+    count,
+    source,
+    get rows(): RunRows {
+      return table.rows;
+    },
+    idCells: roles[0]?.kind === "id" ? cellsOf(0) : new Int32Array(count).fill(-1),
+    responseCells: responseColumns.cells,
+    covariateCells: covariateColumns.cells,
+    levels,
+    covariateStatus: covariateColumns.status,
+    responseStatus: responseColumns.status,
+    excluded: new Uint8Array(count),
+    responseValues: responseColumns.stored,
+    covariateValues: covariateColumns.stored,
+  });
 }
 
 /** Largest number of levels looked up by comparing characters in place (beyond it, a map of names). */

@@ -51,7 +51,9 @@ export type StoredRuns = Omit<DesignRuns, "ids" | "rowSpans" | "covariateTexts" 
  * one that does not pays nothing).
  */
 export function attachRunTexts(stored: StoredRuns): DesignRuns {
-  const runs = { ...stored } as DesignRuns;
+  // Property descriptors are copied, not values: a `rows` getter (a plain table's rows, built on first
+  // access) stays a getter.
+  const runs = Object.defineProperties({}, Object.getOwnPropertyDescriptors(stored)) as DesignRuns;
   const lazy = <T>(key: string, build: () => T) => {
     let value: T | undefined;
     Object.defineProperty(runs, key, {

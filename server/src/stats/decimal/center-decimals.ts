@@ -228,7 +228,7 @@ export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<numbe
     if (low < min) min = low;
     if (high > max) max = high;
   }
-  const offset = chooseOffset(n > 0 ? textOf(rows[0]!) : undefined, min, max);
+  const offset = chooseOffset(n > 0 ? () => storedDecimal(column, rows[0]!, textOf) : undefined, min, max);
   const offsetText = formatDecimal(offset.negative, offset.digits, offset.exponent);
   if (offset.digits !== "" && offset.exponent < scale) scale = offset.exponent;
   if (scale === Infinity) scale = 0;
@@ -285,16 +285,31 @@ interface Offset {
   readonly exponent: number;
 }
 
-/** The rounded midpoint described in the module comment, as exact digits and exponent. */
-function chooseOffset(firstText: string | undefined, min: number, max: number): Offset {
-  const zero: Offset = { negative: false, digits: "", mantissa: 0, exponent: 0 };
-  if (firstText === undefined) return zero;
+const ZERO_OFFSET: Offset = { negative: false, digits: "", mantissa: 0, exponent: 0 };
+
+/**
+ * Stored value `row` as exact digits and exponent: from the column where it holds the value (its mantissa
+ * is the significant digits, with no trailing zero), else from the text.
+ */
+function storedDecimal(column: DecimalColumn, row: number, textOf: (row: number) => string): Offset {
+  const e = column.exponent[row]!;
+  const m = column.mantissa[row]!;
+  if (e !== EXPONENT_FROM_TEXT) return m === 0 ? ZERO_OFFSET : { negative: m < 0, digits: String(Math.abs(m)), mantissa: Math.abs(m), exponent: e };
+  const text = textOf(row);
+  const scan = scanDecimal(text) as DecimalScan;
+  const digits = significantDigits(text, scan);
+  return digits === "" ? ZERO_OFFSET : { negative: scan.negative, digits, mantissa: scan.mantissa, exponent: scan.exponent };
+}
+
+/**
+ * The rounded midpoint described in the module comment, as exact digits and exponent. `first` gives the
+ * first value's (asked for only when every value is equal: then it is the offset).
+ */
+function chooseOffset(first: (() => Offset) | undefined, min: number, max: number): Offset {
+  const zero = ZERO_OFFSET;
+  if (first === undefined) return zero;
   const range = max - min;
-  if (range === 0) {
-    const scan = scanDecimal(firstText) as DecimalScan;
-    const digits = significantDigits(firstText, scan);
-    return digits === "" ? zero : { negative: scan.negative, digits, mantissa: scan.mantissa, exponent: scan.exponent };
-  }
+  if (range === 0) return first();
   if (!Number.isFinite(range)) return zero;
   const k = Math.floor(Math.log10(range));
   const middle = min / 2 + max / 2;

@@ -1,0 +1,110 @@
+/**
+ * The quick pass over a runs-table body: where it ends, and whether every row in it is plain.
+ *
+ * A large run sheet (a machine log of a million runs) is nearly always plain: unquoted cells separated by
+ * blanks, at most one `|` per row, comments, no `excluded` mark. Such a body can hold no
+ * problem of its own, and the model builder can read its values in one pass straight from the text
+ * (`server/src/analysis/read-plain-runs.ts`) instead of through the cell columns of `RunRows`. So the lexer
+ * runs this pass first: it stores nothing per row or cell (the full scanner writes about 48 bytes a row of
+ * cell columns and looks at every character in script) and the AST builder then builds the `RunRows` of a
+ * plain body only when something asks for them (`cst-to-ast.ts`). Any other body gives `undefined` here
+ * and is read by `scanRunsTable` as before, with every problem in it.
+ *
+ * "Plain" is decided conservatively, so that `scanRunsTable` of the same body is certain to report no
+ * problem inside a row: a quote or the word `excluded` anywhere in the body (comments included), a
+ * second `|` in a row, or a lone carriage return makes the body not plain. Whether each row's `|` agrees
+ * with the header's is left to the caller, which knows the header: `rowsWithPipe` says how many rows have
+ * one.
+ */
+import { isTopLevelKeywordAt } from "./top-level-keywords.js";
+
+/** What the quick pass found in a plain body. */
+export interface PlainRunsBody {
+  /** Offset just past the body, as `RunsBodyScan.end`. */
+  readonly end: number;
+  /** Rows (lines with a cell or a `|`, as the scanner counts them). */
+  readonly rowCount: number;
+  /** Rows with a `|`; the others have none. */
+  readonly rowsWithPipe: number;
+  /** Where the last row's content ends (its `RunRows.rowEnd`), or -1 without rows. */
+  readonly lastRowEnd: number;
+}
+
+const LF = 10;
+const CR = 13;
+const SPACE = 32;
+const TAB = 9;
+const BOM = 0xfeff;
+
+/** An `indexOf` result as a position: "not found" is past every position. */
+function found(at: number): number {
+  return at < 0 ? Number.MAX_SAFE_INTEGER : at;
+}
+
+/**
+ * Reads a runs-table body from `start` (the line break ending the header line) as `scanRunsTable` does
+ * and, when every row is plain, returns where it ends and what the AST needs without the rows; otherwise
+ * `undefined`. The table ends at the first line, after a line feed, whose first word (after spaces, tabs
+ * and byte-order marks) is a top-level keyword, or at `limit`.
+ *
+ * It hops from line feed to line feed with `indexOf` (the engine's search, far cheaper per character than
+ * a loop in script) and looks only at each line's first word, its `|` and its `#`, found the same way;
+ * quotes and the word `excluded` are looked for once in the whole body. A line with a lone carriage
+ * return (one not just before a line feed) makes the body not plain: the scanner splits rows there.
+ */
+export function scanPlainRunsBody(source: string, start: number, limit: number = source.length): PlainRunsBody | undefined {
+  const end = Math.max(start, Math.min(limit, source.length));
+  if (start >= end) return undefined;
+  let lf = start;
+  if (source.charCodeAt(start) === CR) {
+    if (start + 1 >= end || source.charCodeAt(start + 1) !== LF) return undefined;
+    lf = start + 1;
+  } else if (source.charCodeAt(start) !== LF) return undefined;
+  let nextPipe = found(source.indexOf("|", start));
+  let nextHash = found(source.indexOf("#", start));
+  let nextCr = found(source.indexOf("\r", lf));
+  let rowCount = 0;
+  let rowsWithPipe = 0;
+  let lastRowEnd = -1;
+  let bodyEnd = end;
+  while (lf < end) {
+    const lineStart = lf + 1;
+    const lineEnd = Math.min(found(source.indexOf("\n", lineStart)), end);
+    let q = lineStart;
+    let c = 0;
+    while (q < lineEnd && ((c = source.charCodeAt(q)) === SPACE || c === TAB || c === BOM)) q++;
+    if (q < lineEnd && isTopLevelKeywordAt(source, q)) {
+      bodyEnd = lineStart;
+      break;
+    }
+    let contentEnd = lineEnd;
+    if (nextCr < lineEnd) {
+      if (nextCr !== lineEnd - 1 || lineEnd === end) return undefined;
+      contentEnd = nextCr;
+      nextCr = found(source.indexOf("\r", lineEnd));
+    }
+    if (nextHash < contentEnd) {
+      contentEnd = nextHash;
+      nextHash = found(source.indexOf("#", lineEnd));
+    }
+    if (q < contentEnd) {
+      // A row: its first character is neither a blank nor `#`.
+      let pipes = 0;
+      while (nextPipe < contentEnd) {
+        if (++pipes > 1) return undefined;
+        nextPipe = found(source.indexOf("|", nextPipe + 1));
+      }
+      rowCount++;
+      if (pipes > 0) rowsWithPipe++;
+      let e = contentEnd;
+      while (e > q && ((c = source.charCodeAt(e - 1)) === SPACE || c === TAB || c === BOM)) e--;
+      lastRowEnd = e;
+    }
+    // A `|` in a comment belongs to no row.
+    while (nextPipe < lineEnd) nextPipe = found(source.indexOf("|", nextPipe + 1));
+    lf = lineEnd;
+  }
+  // Quotes and `excluded` (the scanner's general reader handles both) anywhere in the body: not plain.
+  if (found(source.indexOf('"', start)) < bodyEnd || found(source.indexOf("excluded", start)) < bodyEnd) return undefined;
+  return { end: bodyEnd, rowCount, rowsWithPipe, lastRowEnd };
+}

@@ -1,0 +1,330 @@
+/**
+ * Reading the runs of a plain runs-table body (see `grammar/src/plain-runs-body.ts`) in one pass over its
+ * text, straight into the design's columns: level indices, exact decimals, run-id order.
+ *
+ * Why: the general path reads a table twice, once into the parser's cell columns (`RunRows`, ~48 bytes a
+ * row) and once from them into the design, and checks the ids in a third pass. On a million-run machine
+ * log those passes and the fresh memory of the cell columns were most of `trialbook analyze`. A plain body
+ * whose every row is regular (the header's cells, its `|` where the header has it, known levels, plain
+ * decimals, numbered ids that increase) is read here once, with nothing stored per cell but the values;
+ * the parser builds the cell columns only if something later asks for a cell's span or text.
+ *
+ * The result must be exactly what the general path (`readRuns` in `build-design.ts`) makes of the same
+ * rows, and is tested against it. Anything this reader does not handle makes it return `undefined`
+ * without side effects, and the general path reads the table with its diagnostics: an irregular row, an
+ * unknown level, a pending `?`, a value that is not a plain decimal (an exponent, more than 15 significant
+ * digits), ids that do not increase (a randomised sheet: the general path looks for repeats), a line
+ * longer than `LONGEST_ROW`, a character beyond ASCII.
+ */
+import type { DecimalColumn } from "../stats/decimal/center-decimals.js";
+
+/** What each header column holds, for the reader. */
+export const enum PlainColumn {
+  /** Not read (an undeclared column: the general path's diagnostics are made from the header alone). */
+  Skip = 0,
+  Id = 1,
+  Factor = 2,
+  Value = 3,
+}
+
+export interface PlainRunsLayout {
+  /** Per header column: what it holds. */
+  readonly kinds: readonly PlainColumn[];
+  /** Per header column that is a factor: its level names in order (others: empty). */
+  readonly levelNames: readonly (readonly string[])[];
+  /** Cells before the `|` when the header has one; -1 when it has none (then rows have none either). */
+  readonly pipeAt: number;
+}
+
+export interface PlainRuns {
+  /** Per header column: its factor's level index per run (an empty array for other columns). */
+  readonly levels: readonly Int32Array[];
+  /** Per header column: its values per run (empty for columns that are not values). */
+  readonly values: readonly DecimalColumn[];
+}
+
+const LF = 10;
+const CR = 13;
+const SPACE = 32;
+const TAB = 9;
+const HASH = 35;
+const PIPE = 124;
+const PLUS = 43;
+const MINUS = 45;
+const POINT = 46;
+
+/** Characters encoded at a time. */
+const CHUNK = 65536;
+/** A longer row (or comment line) is not read here: rows of a run sheet are far shorter. */
+const LONGEST_ROW = 4096;
+
+/**
+ * Bytes that end a cell: blanks, line breaks, `|`, `#` (a quote is never in a plain body). A character
+ * beyond ASCII never reaches the reader (its chunk is declined).
+ */
+const ENDS_CELL: Uint8Array = (() => {
+  const table = new Uint8Array(256);
+  for (const c of [SPACE, TAB, LF, CR, PIPE, HASH]) table[c] = 1;
+  return table;
+})();
+
+/**
+ * The text as ASCII bytes, a chunk at a time: `bytes[i - base]` is the character at offset `i` for
+ * `base <= i < limit`, and `bytes[limit - base]` is a line feed put there as a sentinel, so that the
+ * loops below stop at the chunk's end without testing for it. `encodeInto` writes one byte per character
+ * exactly when every character is ASCII, which `load` returns.
+ */
+class AsciiWindow {
+  base = 0;
+  limit = 0;
+  readonly bytes = new Uint8Array(CHUNK + 1);
+  private readonly encoder = new TextEncoder();
+
+  constructor(
+    private readonly source: string,
+    private readonly end: number,
+  ) {}
+
+  load(p: number): boolean {
+    const limit = Math.min(this.end, p + CHUNK);
+    const done = this.encoder.encodeInto(this.source.substring(p, limit), this.bytes);
+    this.base = p;
+    this.limit = limit;
+    this.bytes[limit - p] = LF;
+    return done.read === limit - p && done.written === limit - p;
+  }
+}
+
+/**
+ * A factor's level names as byte strings, for lookups of ASCII cells: by (length, last byte) to the only
+ * candidate where one exists, else by comparing with each name. A name with a character beyond ASCII can
+ * never equal an ASCII cell and is left out.
+ */
+interface ByteLevels {
+  readonly names: readonly Uint8Array[];
+  readonly indices: readonly number[];
+  /** length * 128 + last byte, for lengths below 64: the only name with that key, -1 none, -2 several. */
+  readonly byEnd: Int16Array;
+}
+
+const KEYED_LENGTH = 64;
+
+function byteLevels(names: readonly string[]): ByteLevels {
+  const bytes: Uint8Array[] = [];
+  const indices: number[] = [];
+  const byEnd = new Int16Array(KEYED_LENGTH * 128).fill(-1);
+  let long = false;
+  names.forEach((name, index) => {
+    if (!/^[\x00-\x7f]+$/.test(name)) return;
+    const at = bytes.length;
+    bytes.push(Uint8Array.from(name, (ch) => ch.charCodeAt(0)));
+    indices.push(index);
+    if (name.length >= KEYED_LENGTH) long = true;
+    else {
+      const key = name.length * 128 + name.charCodeAt(name.length - 1);
+      byEnd[key] = byEnd[key] === -1 ? at : -2;
+    }
+  });
+  // With a name too long for the table, every cell compares with each name instead.
+  if (long) byEnd.fill(-2);
+  return { names: bytes, indices, byEnd };
+}
+
+/** The level index of the cell `bytes[s, e)`, or -1. */
+function levelOf(levels: ByteLevels, bytes: Uint8Array, s: number, e: number): number {
+  const length = e - s;
+  const last = bytes[e - 1]!;
+  let hit = length < KEYED_LENGTH ? levels.byEnd[length * 128 + last]! : -2;
+  if (hit === -1) return -1;
+  if (hit >= 0) {
+    const name = levels.names[hit]!;
+    for (let j = 0; j < length - 1; j++) if (name[j] !== bytes[s + j]) return -1;
+    return levels.indices[hit]!;
+  }
+  names: for (hit = 0; hit < levels.names.length; hit++) {
+    const name = levels.names[hit]!;
+    if (name.length !== length || name[length - 1] !== last) continue;
+    for (let j = 0; j < length - 1; j++) if (name[j] !== bytes[s + j]) continue names;
+    return levels.indices[hit]!;
+  }
+  return -1;
+}
+
+/**
+ * The columns being filled and the reader's state: one object of one shape, so that `readRow` is a small
+ * function called once per row, which the engine optimises as an ordinary function after a few hundred
+ * rows (one large loop is optimised on the stack while it runs, and was several times slower here).
+ */
+class PlainReader {
+  readonly columnCount: number;
+  readonly kindOf: Int8Array;
+  readonly pipeAt: number;
+  readonly lookups: readonly ByteLevels[];
+  readonly levels: Int32Array[];
+  readonly mantissas: Float64Array[];
+  readonly exponents: Int8Array[];
+  row = 0;
+  previousId = -1;
+
+  constructor(layout: PlainRunsLayout, rowCount: number) {
+    const kinds = layout.kinds;
+    this.columnCount = kinds.length;
+    this.kindOf = Int8Array.from(kinds);
+    this.pipeAt = layout.pipeAt;
+    this.lookups = layout.levelNames.map((names) => byteLevels(names));
+    this.levels = kinds.map((kind) => new Int32Array(kind === PlainColumn.Factor ? rowCount : 0));
+    this.mantissas = kinds.map((kind) => new Float64Array(kind === PlainColumn.Value ? rowCount : 0));
+    this.exponents = kinds.map((kind) => new Int8Array(kind === PlainColumn.Value ? rowCount : 0));
+  }
+}
+
+/**
+ * Reads the row starting at `bytes[i]` (a character that is not a blank, line break or `#`) into row
+ * `reader.row`, and returns the index of the line break or sentinel that ends it; -1 to decline.
+ *
+ * Each cell is read by the parser of its column as its characters are met (a level compared with the
+ * names, a decimal accumulated, an id's trailing number), so every character is looked at once.
+ */
+function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
+  const endsCell = ENDS_CELL;
+  const columnCount = reader.columnCount;
+  const pipeAt = reader.pipeAt;
+  const row = reader.row;
+  let column = 0;
+  let pipeSeen = false;
+  for (;;) {
+    let c = bytes[i]!;
+    if (c === SPACE || c === TAB) {
+      i++;
+      continue;
+    }
+    if (c === LF || c === CR) break;
+    if (c === HASH) {
+      while ((c = bytes[i]!) !== LF && c !== CR) i++;
+      break;
+    }
+    if (c === PIPE) {
+      if (column !== pipeAt || pipeSeen) return -1;
+      pipeSeen = true;
+      i++;
+      continue;
+    }
+    if (column >= columnCount || (pipeAt >= 0 && pipeSeen !== column >= pipeAt)) return -1;
+    const what = reader.kindOf[column];
+    if (what === PlainColumn.Value) {
+      // A plain decimal as `storePlainDecimal` (center-decimals.ts) reads it: an optional sign, digits
+      // with at most one point, at most 15 significant digits, the last within 10^±22.
+      let negative = false;
+      if (c === PLUS || c === MINUS) {
+        negative = c === MINUS;
+        c = bytes[++i]!;
+      }
+      let mantissa = 0;
+      let significant = 0;
+      let pendingZeros = 0;
+      let fractionDigits = 0;
+      let digits = 0;
+      let afterPoint = false;
+      while (endsCell[c] === 0) {
+        if (c === POINT) {
+          if (afterPoint) return -1;
+          afterPoint = true;
+        } else {
+          const digit = c - 48;
+          if (digit < 0 || digit > 9) return -1;
+          digits++;
+          if (afterPoint) fractionDigits++;
+          if (digit === 0) {
+            // Leading zeros are skipped; others wait until a nonzero digit shows they are not trailing.
+            if (significant > 0) pendingZeros++;
+          } else {
+            for (let z = 0; z < pendingZeros; z++) mantissa *= 10;
+            mantissa = mantissa * 10 + digit;
+            significant += pendingZeros + 1;
+            pendingZeros = 0;
+          }
+        }
+        c = bytes[++i]!;
+      }
+      if (digits === 0 || significant > 15) return -1;
+      const exponent = significant === 0 ? 0 : pendingZeros - fractionDigits;
+      if (exponent > 22 || exponent < -22) return -1;
+      reader.mantissas[column]![row] = negative ? -mantissa : mantissa;
+      reader.exponents[column]![row] = exponent;
+    } else if (what === PlainColumn.Factor) {
+      const s = i;
+      while (endsCell[bytes[i]!] === 0) i++;
+      const level = levelOf(reader.lookups[column]!, bytes, s, i);
+      if (level < 0) return -1;
+      reader.levels[column]![row] = level;
+    } else if (what === PlainColumn.Id) {
+      // The number in the id's trailing digits (at most 15): the test of `increasingNumberedIds`
+      // (duplicate-run-ids.ts), which proves ids distinct when these grow from row to row.
+      let value = 0;
+      let digits = 0;
+      while (endsCell[(c = bytes[i]!)] === 0) {
+        const digit = c - 48;
+        if (digit >= 0 && digit <= 9) {
+          value = value * 10 + digit;
+          digits++;
+        } else {
+          value = 0;
+          digits = 0;
+        }
+        i++;
+      }
+      if (digits === 0 || digits > 15 || value <= reader.previousId) return -1;
+      reader.previousId = value;
+    } else {
+      while (endsCell[bytes[i]!] === 0) i++;
+    }
+    column++;
+  }
+  if (column !== columnCount || (pipeAt >= 0 && !pipeSeen)) return -1;
+  return i;
+}
+
+/**
+ * Reads the `rowCount` rows of the plain body `source[start, end)` with `layout`, or returns `undefined`
+ * when any row is outside what this reader handles (see the module comment). The cell parsers do not test
+ * for the chunk's end: a row is started only with `LONGEST_ROW` characters left in the chunk, and a row
+ * that reaches the sentinel anyway is too long and declined.
+ */
+export function readPlainRuns(source: string, start: number, end: number, rowCount: number, layout: PlainRunsLayout): PlainRuns | undefined {
+  if (layout.kinds.length === 0) return undefined;
+  const reader = new PlainReader(layout, rowCount);
+  const window = new AsciiWindow(source, end);
+  const bytes = window.bytes;
+  let p = start;
+  if (p < end && !window.load(p)) return undefined;
+  while (p < end) {
+    // A row must fit in the window: move it on when less than the longest row read here is left.
+    if (window.limit < end && window.limit - p < LONGEST_ROW && !window.load(p)) return undefined;
+    const base = window.base;
+    const last = window.limit - base;
+    const cut = window.limit < end;
+    let i = p - base;
+    // Line breaks and blanks before a row (the sentinel stops this at the chunk's end).
+    let c = bytes[i]!;
+    while ((c === LF || c === CR || c === SPACE || c === TAB) && i < last) c = bytes[++i]!;
+    if (i >= last) {
+      if (!cut) break;
+      p = window.limit;
+      if (!window.load(p)) return undefined;
+      continue;
+    }
+    if (c === HASH) {
+      while ((c = bytes[i]!) !== LF && c !== CR) i++;
+    } else {
+      if (reader.row === rowCount) return undefined;
+      i = readRow(reader, bytes, i);
+      if (i < 0) return undefined;
+      reader.row++;
+    }
+    if (i >= last && cut) return undefined; // a line longer than LONGEST_ROW
+    p = i + base;
+  }
+  if (reader.row !== rowCount) return undefined;
+  const values = reader.mantissas.map((mantissa, column) => ({ mantissa, exponent: reader.exponents[column]! }));
+  return { levels: reader.levels, values };
+}
