@@ -72,36 +72,50 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const excluded = runs.excluded;
   const factorLevels = allFactors.map((f) => runs.levels[f]!);
   const covariateKnown = usedCovariates.map((c) => runs.covariateStatus[c]!);
-  const roomForRows = new Int32Array(count);
-  const roomForCodes = allFactors.map(() => new Int32Array(count));
   // Runs left out are marked variable by variable (one tight loop per array), so the pass below tests one
   // byte per run, whatever the number of factors and covariates.
   const left = new Uint8Array(count);
   for (let r = 0; r < count; r++) left[r] = excluded[r]! | (status[r] !== ValueStatus.Measured ? 1 : 0);
   for (const levels of factorLevels) for (let r = 0; r < count; r++) if (levels[r]! < 0) left[r] = 1;
   for (const known of covariateKnown) for (let r = 0; r < count; r++) if (known[r] !== ValueStatus.Measured) left[r] = 1;
-  let used = 0;
-  if (allFactors.length === 2) {
-    // The common two-factor design with its arrays in locals.
-    const la = factorLevels[0]!;
-    const lb = factorLevels[1]!;
-    const ca = roomForCodes[0]!;
-    const cb = roomForCodes[1]!;
-    for (let r = 0; r < count; r++) {
-      if (left[r] !== 0) continue;
-      ca[used] = la[r]!;
-      cb[used] = lb[r]!;
-      roomForRows[used++] = r;
-    }
+  let leftOut = 0;
+  for (let r = 0; r < count; r++) leftOut += left[r]!;
+  let selected: Int32Array;
+  let declaredCodes: Int32Array[];
+  // When every run is used (the usual large sheet), the codes are the design's level arrays themselves,
+  // shared and never written (compactCodes copies before renumbering), and no run is copied.
+  const shared = leftOut === 0;
+  if (shared) {
+    selected = new Int32Array(count);
+    for (let r = 0; r < count; r++) selected[r] = r;
+    declaredCodes = factorLevels.slice();
   } else {
-    for (let r = 0; r < count; r++) if (left[r] === 0) roomForRows[used++] = r;
-    factorLevels.forEach((levels, q) => {
-      const codes = roomForCodes[q]!;
-      for (let i = 0; i < used; i++) codes[i] = levels[roomForRows[i]!]!;
-    });
+    const roomForRows = new Int32Array(count);
+    const roomForCodes = allFactors.map(() => new Int32Array(count));
+    let used = 0;
+    if (allFactors.length === 2) {
+      // The common two-factor design with its arrays in locals.
+      const la = factorLevels[0]!;
+      const lb = factorLevels[1]!;
+      const ca = roomForCodes[0]!;
+      const cb = roomForCodes[1]!;
+      for (let r = 0; r < count; r++) {
+        if (left[r] !== 0) continue;
+        ca[used] = la[r]!;
+        cb[used] = lb[r]!;
+        roomForRows[used++] = r;
+      }
+    } else {
+      for (let r = 0; r < count; r++) if (left[r] === 0) roomForRows[used++] = r;
+      factorLevels.forEach((levels, q) => {
+        const codes = roomForCodes[q]!;
+        for (let i = 0; i < used; i++) codes[i] = levels[roomForRows[i]!]!;
+      });
+    }
+    selected = roomForRows.subarray(0, used);
+    declaredCodes = roomForCodes.map((codes) => codes.subarray(0, used));
   }
-  const selected = roomForRows.subarray(0, used);
-  const declaredCodes = roomForCodes.map((codes) => codes.subarray(0, used));
+  const used = selected.length;
 
   const empty: ResponseAnalysis = {
     name: response.name,
@@ -145,7 +159,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   // Level codes are compacted to the levels that occur among the selected runs, so that a declared but
   // unused level does not show up as an aliased column.
   const compact = new Map<number, { codes: Int32Array; levels: number[] }>();
-  allFactors.forEach((f, q) => compact.set(f, compactCodes(declaredCodes[q]!, design.factors[f]!.levels.length)));
+  allFactors.forEach((f, q) => compact.set(f, compactCodes(declaredCodes[q]!, design.factors[f]!.levels.length, shared)));
 
   // Terms involving a factor seen at a single level cannot be estimated: drop them and say so.
   const terms: DesignTerm[] = [];
@@ -318,11 +332,12 @@ function copyProperties(out: Record<string, unknown>, from: object): void {
 }
 
 /**
- * A factor's level codes for the selected runs (`codes`, the declared levels, renumbered in place),
+ * A factor's level codes for the selected runs (`codes`, the declared levels, renumbered in place, or
+ * into a copy when they are `shared` with the design),
  * compacted to the levels that occur among them (in declared order), and the declared level of each code.
  * One pass marks the levels present; a second pass renumbers only when some declared level is absent.
  */
-function compactCodes(codes: Int32Array, levelCount: number): { codes: Int32Array; levels: number[] } {
+function compactCodes(codes: Int32Array, levelCount: number, shared: boolean): { codes: Int32Array; levels: number[] } {
   const n = codes.length;
   const seen = new Uint8Array(levelCount);
   let distinct = 0;
@@ -336,8 +351,10 @@ function compactCodes(codes: Int32Array, levelCount: number): { codes: Int32Arra
   const levels: number[] = [];
   const map = new Int32Array(levelCount);
   for (let l = 0; l < levelCount; l++) if (seen[l] === 1) map[l] = levels.push(l) - 1;
-  if (levels.length < levelCount) for (let i = 0; i < n; i++) codes[i] = map[codes[i]!]!;
-  return { codes, levels };
+  if (levels.length === levelCount) return { codes, levels };
+  const out = shared ? new Int32Array(n) : codes;
+  for (let i = 0; i < n; i++) out[i] = map[codes[i]!]!;
+  return { codes: out, levels };
 }
 
 function uniqueIndices(terms: readonly DesignTerm[], kind: "factor" | "covariate"): number[] {

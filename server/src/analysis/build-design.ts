@@ -789,7 +789,8 @@ function readRuns(
  * The runs of a plain table read by `readPlainRuns`, in the shape the general path gives the same rows
  * (every row regular and clean: levels known, values measured, ids increasing); `undefined` when the
  * reader declined. Cell indices are computed, not read: every row has exactly the header's cells, so cell
- * `k` of row `r` is global cell `r * columns + k` of the table's `RunRows`, built only if asked for.
+ * `k` of row `r` is global cell `r * columns + k` of the table's `RunRows`. Both the index arrays and the
+ * `RunRows` are built on first access (getters, computed once).
  */
 function readPlainTable(
   source: string,
@@ -822,28 +823,37 @@ function readPlainTable(
     return column >= 0 ? read.levels[column]! : new Int32Array(count).fill(-1);
   });
   const values = (kind: "covariate" | "response", n: number) => {
-    const cells: Int32Array[] = [];
     const status: Uint8Array[] = [];
     const stored: DecimalColumn[] = [];
     for (let i = 0; i < n; i++) {
       const column = columnOf(kind, i);
-      cells.push(column >= 0 ? cellsOf(column) : new Int32Array(count).fill(-1));
       status.push(column >= 0 ? new Uint8Array(count) /* ValueStatus.Measured is 0 */ : new Uint8Array(count).fill(ValueStatus.Invalid));
       stored.push(column >= 0 ? read.values[column]! : decimalColumn(count));
     }
-    return { cells, status, stored };
+    // The cell indices are read only for a cell's text or span (hovers, diagnostics, the JSON residuals):
+    // made on first access, they cost a large table nothing otherwise.
+    let cells: Int32Array[] | undefined;
+    const cellsOfAll = () => (cells ??= Array.from({ length: n }, (_, i) => (columnOf(kind, i) >= 0 ? cellsOf(columnOf(kind, i)) : new Int32Array(count).fill(-1))));
+    return { cellsOfAll, status, stored };
   };
   const covariateColumns = values("covariate", covariates.length);
   const responseColumns = values("response", responses.length);
+  let idCells: Int32Array | undefined;
   return attachRunTexts({
     count,
     source,
     get rows(): RunRows {
       return table.rows;
     },
-    idCells: roles[0]?.kind === "id" ? cellsOf(0) : new Int32Array(count).fill(-1),
-    responseCells: responseColumns.cells,
-    covariateCells: covariateColumns.cells,
+    get idCells(): Int32Array {
+      return (idCells ??= roles[0]?.kind === "id" ? cellsOf(0) : new Int32Array(count).fill(-1));
+    },
+    get responseCells(): readonly Int32Array[] {
+      return responseColumns.cellsOfAll();
+    },
+    get covariateCells(): readonly Int32Array[] {
+      return covariateColumns.cellsOfAll();
+    },
     levels,
     covariateStatus: covariateColumns.status,
     responseStatus: responseColumns.status,
