@@ -212,42 +212,36 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
     if (column >= columnCount || (pipeAt >= 0 && pipeSeen !== column >= pipeAt)) return -1;
     const what = reader.kindOf[column];
     if (what === PlainColumn.Value) {
-      // A plain decimal as `storePlainDecimal` (center-decimals.ts) reads it: an optional sign, digits
-      // with at most one point, at most 15 significant digits, the last within 10^±22.
+      // A plain decimal, stored as `storePlainDecimal` (center-decimals.ts) stores it: an optional sign,
+      // digits with at most one point. Every digit is accumulated (leading zeros add nothing, trailing
+      // ones are divided out below), which is exact while the integer stays below 10^15; a longer one is
+      // declined (the general path reads it), so at most 15 significant digits are kept, as there.
       let negative = false;
       if (c === PLUS || c === MINUS) {
         negative = c === MINUS;
         c = bytes[++i]!;
       }
       let mantissa = 0;
-      let significant = 0;
-      let pendingZeros = 0;
-      let fractionDigits = 0;
       let digits = 0;
-      let afterPoint = false;
-      while (endsCell[c] === 0) {
-        if (c === POINT) {
-          if (afterPoint) return -1;
-          afterPoint = true;
-        } else {
-          const digit = c - 48;
-          if (digit < 0 || digit > 9) return -1;
+      let pointAt = -1;
+      for (;;) {
+        const digit = c - 48;
+        if (digit >= 0 && digit <= 9) {
+          mantissa = mantissa * 10 + digit;
           digits++;
-          if (afterPoint) fractionDigits++;
-          if (digit === 0) {
-            // Leading zeros are skipped; others wait until a nonzero digit shows they are not trailing.
-            if (significant > 0) pendingZeros++;
-          } else {
-            for (let z = 0; z < pendingZeros; z++) mantissa *= 10;
-            mantissa = mantissa * 10 + digit;
-            significant += pendingZeros + 1;
-            pendingZeros = 0;
-          }
-        }
+        } else if (c === POINT && pointAt < 0) pointAt = digits;
+        else break;
         c = bytes[++i]!;
       }
-      if (digits === 0 || significant > 15) return -1;
-      const exponent = significant === 0 ? 0 : pendingZeros - fractionDigits;
+      if (endsCell[c] === 0 || digits === 0 || mantissa >= 1e15) return -1;
+      let exponent = pointAt < 0 ? 0 : pointAt - digits;
+      if (mantissa === 0) exponent = 0;
+      else {
+        while (mantissa % 10 === 0) {
+          mantissa /= 10;
+          exponent++;
+        }
+      }
       if (exponent > 22 || exponent < -22) return -1;
       reader.mantissas[column]![row] = negative ? -mantissa : mantissa;
       reader.exponents[column]![row] = exponent;

@@ -4,7 +4,8 @@
  * linear-model tests): the same values bit for bit, NaN where the fit has null, on the repository's
  * samples and on fits with no residual df and with a zero residual. The screened candidates give the
  * same Bonferroni outliers as all residuals (whose flags equal car::outlierTest, see the pipeline tests),
- * on the samples and on invented data with planted outliers at several alphas.
+ * on the samples and on invented data with planted outliers at several alphas (for a fit on cell
+ * statistics, screened from its per-cell view of residuals and leverages).
  */
 
 import assert from "node:assert/strict";
@@ -62,6 +63,11 @@ describe("studentizedValues equals the fit's studentized residuals", () => {
     const text = 'trial "invented molding line"\nresponse y\nfactor a levels a1, a2, a3\nfactor b levels b1, b2\nruns id a b | y\n' + rows.join("\n") + "\n";
     assert.equal(assertSame(text, "planted"), 1);
     const fit = fitsOf(text)[0]!;
+    // Unbalanced (every seventh run left out), the same data are fitted on cell statistics, and the
+    // candidates come from the per-cell view instead of per-run arrays.
+    const unbalanced = 'trial "invented molding line"\nresponse y\nfactor a levels a1, a2, a3\nfactor b levels b1, b2\nruns id a b | y\n' + rows.filter((_, i) => i % 7 !== 0).join("\n") + "\n";
+    assert.equal(assertSame(unbalanced, "planted, unbalanced"), 1);
+    assert.ok(fitsOf(unbalanced)[0]!.runCells, "the cell path's per-cell view");
     const flagged = bonferroniOutliers(fit.studentized, fit.residual.df, 0.05);
     assert.ok(flagged.length >= 4, `planted outliers flagged: ${flagged.length}`);
     const c = studentizedCandidates(fit, bonferroniScreen(fit.residuals.length, fit.residual.df, 0.05)!);

@@ -75,7 +75,15 @@ function assertAgree(cells: LinearModelResult, general: LinearModelResult, input
     if (b === null) assert.equal(a, null, what);
     else assertClose(a, b, what, 1e-12, abs);
   };
-  assert.deepEqual(Object.keys(cells).sort(), Object.keys(general).sort());
+  // The cell path adds its per-cell view (`runCells`), checked below to spread back to the per-run arrays.
+  assert.deepEqual(Object.keys(cells).filter((k) => k !== "runCells").sort(), Object.keys(general).sort());
+  assert.ok(cells.runCells && general.runCells === undefined);
+  const view = cells.runCells;
+  for (let i = 0; i < input.y.length; i++) {
+    const c = view.cellOfRun[i]!;
+    assert.ok(Object.is(cells.fitted[i], view.fitted[c]) && Object.is(cells.leverage[i], view.leverage[c]), `cell view of run ${i}`);
+    assert.ok(Object.is(cells.residuals[i], view.y[i]! - view.fitted[c]!), `cell view residual of run ${i}`);
+  }
   assert.equal(cells.rank, general.rank);
   assert.deepEqual(cells.aliased, general.aliased);
   assert.deepEqual(cells.notes, general.notes);

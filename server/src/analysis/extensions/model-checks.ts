@@ -26,7 +26,7 @@ import type { AlternativeTests, ModelChecks } from "../results.js";
 import { bartlettTest } from "../../stats/checks/bartlett.js";
 import { leveneTests } from "../../stats/checks/levene.js";
 import { bonferroniOutliersAmong, bonferroniScreen } from "../../stats/checks/outliers.js";
-import { shapiroWilk } from "../../stats/checks/shapiro-wilk.js";
+import { shapiroWilk, shapiroWilkSizeProblem } from "../../stats/checks/shapiro-wilk.js";
 import { varianceMeanTrend } from "../../stats/checks/variance-mean.js";
 import { friedman, kruskalWallis } from "../../stats/alternatives/rank-tests.js";
 import { welchAnova, welchT } from "../../stats/alternatives/welch.js";
@@ -94,7 +94,8 @@ export const modelChecksExtension: ResponseExtension = (context) => {
 
   // Normality of the residuals.
   if (fit.residual.df >= 1) {
-    const sw = shapiroWilk(fit.residuals);
+    const unsized = shapiroWilkSizeProblem(fit.n);
+    const sw = unsized === undefined ? shapiroWilk(fit.residuals) : { ok: false as const, reason: unsized };
     if (sw.ok) {
       checks.shapiroWilk = { w: sw.w, p: sw.p, n: sw.n };
       // Residuals are correlated through the fit (cov = σ²(I - H)); when the model uses half the runs or more

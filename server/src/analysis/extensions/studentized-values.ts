@@ -7,6 +7,7 @@
  */
 
 import { caseStatisticValues } from "../../stats/linear-model/case-statistics.js";
+import type { RunCells } from "../../stats/linear-model/model-core.js";
 import type { LinearModelResult } from "../../stats/linear-model/types.js";
 
 /** Externally studentized residuals of `fit` (Belsley, Kuh & Welsch 1980), NaN where the fit has null. */
@@ -28,14 +29,16 @@ export interface StudentizedCandidates {
  * their t comes from the fit's own formula applied to them alone.
  */
 export function studentizedCandidates(fit: LinearModelResult, minimum: number): StudentizedCandidates {
-  const residuals = fit.residuals;
-  const leverage = fit.leverage;
-  const n = residuals.length;
   const ss = fit.residual.ss;
   const df = fit.residual.df;
   const bound = (0.98 * minimum * minimum * ss) / (df - 1 + minimum * minimum);
+  const screened = Number.isFinite(bound) && bound > 0 && minimum > 0;
+  if (screened && fit.runCells) return cellCandidates(fit, fit.runCells, bound);
+  const residuals = fit.residuals;
+  const leverage = fit.leverage;
+  const n = residuals.length;
   let chosen: Int32Array;
-  if (!(minimum > 0) || !(bound > 0) || !Number.isFinite(bound)) {
+  if (!screened) {
     chosen = new Int32Array(n);
     for (let i = 0; i < n; i++) chosen[i] = i;
   } else {
@@ -55,4 +58,32 @@ export function studentizedCandidates(fit: LinearModelResult, minimum: number): 
     h[j] = leverage[chosen[j]!]!;
   }
   return { index: chosen, studentized: caseStatisticValues(e, h, ss, df, fit.caseStatisticsDefined).studentized };
+}
+
+/**
+ * `studentizedCandidates` of a fit on cell statistics: each run's residual and leverage are formed from
+ * its cell's (the same operations as the fit's per-run arrays), so no per-run array is made.
+ */
+function cellCandidates(fit: LinearModelResult, cells: RunCells, bound: number): StudentizedCandidates {
+  const { y, cellOfRun, fitted, leverage } = cells;
+  const n = y.length;
+  let count = 0;
+  const picked: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const c = cellOfRun[i]!;
+    const e = y[i]! - fitted[c]!;
+    if (!((e * e) / (1 - leverage[c]!) < bound)) {
+      picked.push(i);
+      count++;
+    }
+  }
+  const chosen = Int32Array.from(picked);
+  const e = new Float64Array(count);
+  const h = new Float64Array(count);
+  for (let j = 0; j < count; j++) {
+    const c = cellOfRun[chosen[j]!]!;
+    e[j] = y[chosen[j]!]! - fitted[c]!;
+    h[j] = leverage[c]!;
+  }
+  return { index: chosen, studentized: caseStatisticValues(e, h, fit.residual.ss, fit.residual.df, fit.caseStatisticsDefined).studentized };
 }

@@ -33,12 +33,22 @@ function poly(c: readonly number[], x: number): number {
 }
 
 /**
+ * Why `n` values cannot be tested, or undefined when they can: a caller whose values are built on demand
+ * (a fit's residuals) asks first, so that a million residuals are not made only to be refused.
+ */
+export function shapiroWilkSizeProblem(n: number): string | undefined {
+  if (n < 3) return "the Shapiro-Wilk test needs at least 3 values";
+  if (n > 5000) return "the Shapiro-Wilk p-value approximation holds for at most 5000 values";
+  return undefined;
+}
+
+/**
  * Returns W and its p-value, or `{ ok: false, reason }` for n outside 3..5000 or data without spread.
  */
 export function shapiroWilk(values: ArrayLike<number>): ({ ok: true } & ShapiroWilk) | { ok: false; reason: string } {
   const n = values.length;
-  if (n < 3) return { ok: false, reason: "the Shapiro-Wilk test needs at least 3 values" };
-  if (n > 5000) return { ok: false, reason: "the Shapiro-Wilk p-value approximation holds for at most 5000 values" };
+  const unsized = shapiroWilkSizeProblem(n);
+  if (unsized !== undefined) return { ok: false, reason: unsized };
   // A typed-array sort compares numbers natively (no comparator call per comparison).
   const x = Float64Array.from(values).sort();
   const range = x[n - 1]! - x[0]!;

@@ -352,6 +352,7 @@ export function cellModelCore(input: LinearModelInput, cells: CellsOfInput | nul
     ...core,
     method: "cells",
     residualSs: core.residualSs + withinSs,
+    runCells: { y, cellOfRun, fitted: cellFitted, leverage: cellLeverage },
     get fitted(): Float64Array {
       if (fitted === undefined) {
         fitted = new Float64Array(n);

@@ -144,6 +144,7 @@ export function assembleResult(input: LinearModelInput, core: ModelCore, centreO
     get leverage(): Float64Array {
       return core.leverage;
     },
+    ...(core.runCells ? { runCells: core.runCells } : {}),
     get standardized(): (number | null)[] {
       return (standardized ??= nullWhereNaN(caseValues().standardized));
     },

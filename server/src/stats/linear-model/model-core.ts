@@ -24,6 +24,19 @@ export interface CoreSlopeHomogeneity {
 }
 
 /** Output of a computation path. Term arrays follow `input.terms`. */
+/**
+ * A fit whose runs share their cell's fitted value and leverage (a model of factors only, fitted on cell
+ * statistics): run i's fitted value is `fitted[cellOfRun[i]]`, its residual `y[i] - fitted[cellOfRun[i]]`
+ * (the same operation as the residuals array), its leverage `leverage[cellOfRun[i]]`. A consumer that
+ * scans every run once (the outlier screen) reads these instead of making per-run arrays.
+ */
+export interface RunCells {
+  readonly y: Float64Array;
+  readonly cellOfRun: Int32Array;
+  readonly fitted: Float64Array;
+  readonly leverage: Float64Array;
+}
+
 export interface ModelCore {
   readonly method: "balanced" | "cells" | "qr";
   readonly rank: number;
@@ -35,6 +48,8 @@ export interface ModelCore {
   readonly fitted: Float64Array;
   readonly residuals: Float64Array;
   readonly leverage: Float64Array;
+  /** Set by the cell path: the per-run values are their cell's (see `RunCells`). */
+  readonly runCells?: RunCells;
   readonly slopes: readonly { readonly covariate: string; readonly estimate: number; readonly seFactor: number }[];
   readonly adjustedMeans: readonly CoreAdjustedMeans[];
   readonly slopeHomogeneity: readonly CoreSlopeHomogeneity[];

@@ -1,3 +1,5 @@
+import type { RunCells } from "./model-core.js";
+
 /**
  * Public data shapes of the fixed-effects linear model.
  *
@@ -142,6 +144,8 @@ export interface LinearModelResult {
   readonly fitted: Float64Array;
   readonly residuals: Float64Array;
   readonly leverage: Float64Array;
+  /** The cell path's per-cell view of `fitted`, `residuals` and `leverage` (model-core.ts), when it ran. */
+  readonly runCells?: RunCells;
   /**
    * Whether standardized and studentized residuals are defined at all: a residual mean square exists and
    * the residual is not zero to rounding. Consumers that compute case statistics for a subset of the runs
