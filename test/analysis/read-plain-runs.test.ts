@@ -8,6 +8,7 @@ import assert from "node:assert/strict";
 import fc from "fast-check";
 import type { RunsTable, TrialFile } from "../../grammar/src/ast.js";
 import { parseTrial } from "../../grammar/src/parse.js";
+import { analyzeParsed } from "../../server/src/analysis/analyze-document.js";
 import { buildDesign } from "../../server/src/analysis/build-design.js";
 import type { DesignRuns } from "../../server/src/analysis/design.js";
 
@@ -84,6 +85,23 @@ describe("plain runs tables read in one pass", () => {
     assert.equal(design.runs.ids[7], "r8");
     assert.deepEqual(design.runs.rowSpans[0], { start: text.indexOf("r1 "), end: text.indexOf("\n", text.indexOf("r1 ")) });
     assert.equal(design.runs.responseTexts[1]![3], "-3.50");
+    // Read whole by the plain reader, every run is known to be complete; the general path does not say.
+    assert.equal(design.runs.complete, true);
+    assert.equal(buildDesign(withoutPlainBody(parseTrial(text))).design.runs.complete, undefined);
+  });
+
+  it("gives the same analysis as the general path: tables, means, comparisons, checks, residuals", () => {
+    // Unbalanced, so that the fit runs on cell statistics; enough runs for the binned variance checks.
+    const rows = Array.from({ length: 40000 }, (_, i) => (i % 9 === 4 ? "" : `  r${i + 1} a${(i % 3) + 1} ${["low", "high"][(i >> 1) % 2]} ${15 + (i % 7)}.${i % 10} | ${(20 + (i % 3) + ((i * 7919) % 101) / 50).toFixed(2)} -${i % 13}.5\n`));
+    const text = `${DECLARATIONS.replace("x-1, Low", "x-1")}\nruns id a b t | y z\n${rows.join("")}`;
+    const file = parseTrial(text);
+    const fast = analyzeParsed(file);
+    const general = analyzeParsed(withoutPlainBody(file));
+    assert.equal(fast.design.runs.complete, true);
+    assert.equal(fast.responses.length, 2);
+    assert.ok(fast.responses.every((r) => r.anova.length === 6 && r.residuals.length === fast.design.runs.count));
+    assert.deepEqual(JSON.parse(JSON.stringify(fast.responses)), JSON.parse(JSON.stringify(general.responses)));
+    assert.deepEqual(fast.diagnostics, general.diagnostics);
   });
 
   it("leaves to the general path what it does not read, with the same results", () => {

@@ -74,12 +74,15 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const covariateKnown = usedCovariates.map((c) => runs.covariateStatus[c]!);
   // Runs left out are marked variable by variable (one tight loop per array), so the pass below tests one
   // byte per run, whatever the number of factors and covariates.
-  const left = new Uint8Array(count);
-  for (let r = 0; r < count; r++) left[r] = excluded[r]! | (status[r] !== ValueStatus.Measured ? 1 : 0);
-  for (const levels of factorLevels) for (let r = 0; r < count; r++) if (levels[r]! < 0) left[r] = 1;
-  for (const known of covariateKnown) for (let r = 0; r < count; r++) if (known[r] !== ValueStatus.Measured) left[r] = 1;
+  // A design known to be complete (runs.complete) has none to leave out.
+  const left = new Uint8Array(runs.complete ? 0 : count);
   let leftOut = 0;
-  for (let r = 0; r < count; r++) leftOut += left[r]!;
+  if (!runs.complete) {
+    for (let r = 0; r < count; r++) left[r] = excluded[r]! | (status[r] !== ValueStatus.Measured ? 1 : 0);
+    for (const levels of factorLevels) for (let r = 0; r < count; r++) if (levels[r]! < 0) left[r] = 1;
+    for (const known of covariateKnown) for (let r = 0; r < count; r++) if (known[r] !== ValueStatus.Measured) left[r] = 1;
+    for (let r = 0; r < count; r++) leftOut += left[r]!;
+  }
   let selected: Int32Array;
   let declaredCodes: Int32Array[];
   // When every run is used (the usual large sheet), the codes are the design's level arrays themselves,

@@ -838,6 +838,11 @@ function readPlainTable(
   };
   const covariateColumns = values("covariate", covariates.length);
   const responseColumns = values("response", responses.length);
+  // Every variable has its column, so every run has every level and value.
+  const complete =
+    factors.every((_, i) => columnOf("factor", i) >= 0) &&
+    covariates.every((_, i) => columnOf("covariate", i) >= 0) &&
+    responses.every((_, i) => columnOf("response", i) >= 0);
   let idCells: Int32Array | undefined;
   return attachRunTexts({
     count,
@@ -860,6 +865,7 @@ function readPlainTable(
     excluded: new Uint8Array(count),
     responseValues: responseColumns.stored,
     covariateValues: covariateColumns.stored,
+    ...(complete ? { complete: true as const } : {}),
   });
 }
 

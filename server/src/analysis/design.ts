@@ -117,6 +117,12 @@ export interface DesignRuns {
   readonly responseValues: readonly DecimalColumn[];
   /** Per covariate: as `responseValues`, meaningful only where `covariateStatus` is `Measured`. */
   readonly covariateValues: readonly DecimalColumn[];
+  /**
+   * True when every run is known to be complete: every factor's level known, every response and
+   * covariate measured, none excluded (the plain-table reader proves it as it reads). Lets the analysis
+   * skip finding the runs it can use. Absent when not known, not when false.
+   */
+  readonly complete?: true;
 }
 
 /**

@@ -116,9 +116,9 @@ export const modelChecksExtension: ResponseExtension = (context) => {
 
     // Outliers: Bonferroni bound on externally studentized residuals.
     // Only runs that can pass the bound get a studentized residual (studentized-values.ts).
-    const screen = bonferroniScreen(fit.residuals.length, fit.residual.df, alpha);
+    const screen = bonferroniScreen(fit.n, fit.residual.df, alpha);
     const candidates = screen === null ? null : studentizedCandidates(fit, screen);
-    const flags = candidates ? bonferroniOutliersAmong(candidates.index, candidates.studentized, fit.residuals.length, fit.residual.df, alpha) : [];
+    const flags = candidates ? bonferroniOutliersAmong(candidates.index, candidates.studentized, fit.n, fit.residual.df, alpha) : [];
     if (flags.length > 0) {
       checks.outliers = flags.map((f) => ({ run: rows.length ? runId(design.runs, rows[f.index]!) : "", row: rows[f.index]!, studentized: f.studentized, p: f.p }));
       for (const f of flags) {
