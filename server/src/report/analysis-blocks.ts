@@ -1,5 +1,6 @@
 import type { ResponseAnalysis } from "../analysis/results.js";
-import { formatF, formatNumber, formatP } from "../text/format-number.js";
+import { comparisonPFloor } from "../stats/comparisons/p-floors.js";
+import { formatF, formatNumber, formatP, formatPAtFloor } from "../text/format-number.js";
 import type { ReportBlock } from "./blocks.js";
 
 const METHOD_NAMES: Readonly<Record<string, string>> = { tukey: "Tukey HSD", lsd: "Fisher LSD", bonferroni: "Bonferroni", holm: "Holm", "games-howell": "Games–Howell", dunnett: "Dunnett" };
@@ -24,7 +25,7 @@ export function analysisBlocks(r: ResponseAnalysis): ReportBlock[] {
       caption: `Pairwise comparisons with ${level}% simultaneous intervals`,
       header: ["Term", "Method", "Levels", "Difference", "Lower", "Upper", "Adjusted p"],
       numeric: [false, false, false, true, true, true, true],
-      rows: r.comparisons.map((c) => [c.term, METHOD_NAMES[c.method] ?? c.method, `${c.a} − ${c.b}`, formatNumber(c.diff), formatNumber(c.lower), formatNumber(c.upper), formatP(c.p)]),
+      rows: r.comparisons.map((c) => [c.term, METHOD_NAMES[c.method] ?? c.method, `${c.a} − ${c.b}`, formatNumber(c.diff), formatNumber(c.lower), formatNumber(c.upper), formatPAtFloor(c.p, comparisonPFloor(c.method))]),
     });
   } else missing.push("multiple comparisons");
   if (r.best && r.best.length > 0) {

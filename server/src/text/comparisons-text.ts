@@ -5,7 +5,8 @@
 
 import type { ResponseAnalysis } from "../analysis/results.js";
 import { alignColumns } from "./align-columns.js";
-import { formatF, formatNumber, formatP } from "./format-number.js";
+import { comparisonPFloor } from "../stats/comparisons/p-floors.js";
+import { formatF, formatNumber, formatP, formatPAtFloor } from "./format-number.js";
 
 /** The lines (indented by two spaces) describing a response's comparisons, checks, alternatives and power. */
 export function comparisonsText(r: ResponseAnalysis): string[] {
@@ -22,7 +23,7 @@ export function comparisonsText(r: ResponseAnalysis): string[] {
     if (pairs.length > 0) {
       const level = Math.round(r.confidence * 100);
       const rows = [["Method", "Comparison", "Difference", `${level}% simultaneous CI`, "p"]];
-      for (const c of pairs) rows.push([c.method, `${c.a} − ${c.b}`, formatNumber(c.diff, 4), c.lower === null || c.upper === null ? "—" : `${formatNumber(c.lower, 4)} to ${formatNumber(c.upper, 4)}`, formatP(c.p)]);
+      for (const c of pairs) rows.push([c.method, `${c.a} − ${c.b}`, formatNumber(c.diff, 4), c.lower === null || c.upper === null ? "—" : `${formatNumber(c.lower, 4)} to ${formatNumber(c.upper, 4)}`, formatPAtFloor(c.p, comparisonPFloor(c.method))]);
       lines.push(...alignColumns(rows, { align: ["left", "left", "right", "left", "right"] }).map((l) => "    " + l));
     }
   }

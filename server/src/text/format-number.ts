@@ -31,6 +31,14 @@ export function formatP(p: number | null | undefined): string {
   return p.toExponential(1);
 }
 
+/**
+ * A p-value that a method reports at `floor` when it is smaller (a comparison computed as 1 - CDF, see
+ * `comparisonPFloor`): the floor itself is shown as "< 1e-10", not as a value; others as `formatP`.
+ */
+export function formatPAtFloor(p: number | null | undefined, floor: number | undefined): string {
+  return floor !== undefined && p === floor ? `< ${floor.toExponential(0)}` : formatP(p);
+}
+
 /** "p = 0.0007", or "p < 1e-300" when the upper tail underflows a double. */
 export function pClause(p: number | null | undefined): string {
   return p === 0 ? "p < 1e-300" : `p = ${formatP(p)}`;

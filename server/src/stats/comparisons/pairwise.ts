@@ -17,6 +17,7 @@
 
 import { dunnettTwoSidedCdf, dunnettTwoSidedQuantile } from "../distributions/dunnett.js";
 import { STUDENTIZED_RANGE_MAX_MEANS, studentizedRangeQuantile, studentizedRangeUpperTail } from "../distributions/studentized-range.js";
+import { DUNNETT_P_FLOOR } from "./p-floors.js";
 import { tQuantile, tTwoSidedP } from "../distributions/t-distribution.js";
 import type { GroupSummary } from "./group-summary.js";
 import { bonferroniAdjust, holmAdjust } from "./p-adjust.js";
@@ -174,7 +175,7 @@ export function dunnett(groups: readonly GroupSummary[], control: number, pooled
       const se = Math.sqrt(pooled.ms * (1 / groups[i]!.n + 1 / g0.n));
       const cdf = dunnettTwoSidedCdf(Math.abs(diff) / se, lambdas, pooled.df);
       // 1 - P is accurate to the quadrature's ~1e-9 absolute; smaller p-values are floored there.
-      const p = Number.isFinite(cdf) ? Math.max(1e-9, 1 - cdf) : NaN;
+      const p = Number.isFinite(cdf) ? Math.max(DUNNETT_P_FLOOR, 1 - cdf) : NaN;
       return { a: i, b: control, diff, lower: finiteOrNull(diff - critical * se), upper: finiteOrNull(diff + critical * se), p: finiteOrNull(p) };
     }),
   };

@@ -36,9 +36,10 @@ import { solveIncreasing } from "./monotone-root.js";
 import { interpolateStep, stepTable, type StepTable, type ValueAndSlope } from "./step-table.js";
 import { normalDensity, normalQuantile, normalUpperTail } from "./normal-distribution.js";
 import { tQuantile } from "./t-distribution.js";
+import { STUDENTIZED_RANGE_P_FLOOR } from "../comparisons/p-floors.js";
 
 /** The smallest upper-tail probability reported (the CDF is accurate to about 1e-12 absolute). */
-export const STUDENTIZED_RANGE_P_FLOOR = 1e-10;
+export { STUDENTIZED_RANGE_P_FLOOR };
 
 /**
  * The most means the distribution is computed for. Its accuracy is tested against R's integrals up to 20
