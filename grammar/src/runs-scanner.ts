@@ -16,6 +16,7 @@
  * produces these columns pays.
  */
 import { CellFlag, type ExcludedMark, type RunRows, type SyntaxProblem } from "./ast.js";
+import { encodeAsciiChunk } from "./ascii-chunk.js";
 import { estimateLineFeeds } from "./line-density.js";
 import { isTopLevelKeywordAt } from "./top-level-keywords.js";
 
@@ -247,8 +248,7 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
       // exactly when every character is ASCII; otherwise the rows of this chunk are read from the string.
       chunkStart = p;
       chunkEnd = Math.min(end, p + CHUNK);
-      const done = encoder.encodeInto(source.substring(p, chunkEnd), bytes);
-      chunkAscii = done.read === chunkEnd - p && done.written === chunkEnd - p;
+      chunkAscii = encodeAsciiChunk(source, p, chunkEnd, bytes);
     }
     let q = chunkAscii ? readPlainRowBytes(b, source, bytes, chunkStart, p, chunkEnd, end) : -1;
     if (q < 0) q = readPlainRow(b, source, p, end);
@@ -266,7 +266,6 @@ const CHUNK = 32768;
 
 /** The buffer the chunks are encoded into, shared by every scan (scans never overlap: one thread). */
 const bytes = new Uint8Array(CHUNK);
-const encoder = new TextEncoder();
 
 /**
  * The scan's result: columns trimmed to what was read. Kept out of `scanRunsTable`, whose loop is

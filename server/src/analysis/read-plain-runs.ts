@@ -12,10 +12,11 @@
  * The result must be exactly what the general path (`readRuns` in `build-design.ts`) makes of the same
  * rows, and is tested against it. Anything this reader does not handle makes it return `undefined`
  * without side effects, and the general path reads the table with its diagnostics: an irregular row, an
- * unknown level, a pending `?`, a value that is not a plain decimal (an exponent, more than 15 significant
- * digits), ids that do not increase (a randomised sheet: the general path looks for repeats), a line
+ * unknown level, a pending `?`, a value that is not a plain decimal (an exponent, more than 15 digits from
+ * the first nonzero one), ids that do not increase (a randomised sheet: the general path looks for repeats), a line
  * longer than `LONGEST_ROW`, a character beyond ASCII.
  */
+import { encodeAsciiChunk } from "../../../grammar/src/ascii-chunk.js";
 import type { DecimalColumn } from "../stats/decimal/center-decimals.js";
 
 /** What each header column holds, for the reader. */
@@ -71,14 +72,13 @@ const ENDS_CELL: Uint8Array = (() => {
 /**
  * The text as ASCII bytes, a chunk at a time: `bytes[i - base]` is the character at offset `i` for
  * `base <= i < limit`, and `bytes[limit - base]` is a line feed put there as a sentinel, so that the
- * loops below stop at the chunk's end without testing for it. `encodeInto` writes one byte per character
- * exactly when every character is ASCII, which `load` returns.
+ * loops below stop at the chunk's end without testing for it. `load` returns false for a chunk that is
+ * not all ASCII.
  */
 class AsciiWindow {
   base = 0;
   limit = 0;
   readonly bytes = new Uint8Array(CHUNK + 1);
-  private readonly encoder = new TextEncoder();
 
   constructor(
     private readonly source: string,
@@ -87,11 +87,11 @@ class AsciiWindow {
 
   load(p: number): boolean {
     const limit = Math.min(this.end, p + CHUNK);
-    const done = this.encoder.encodeInto(this.source.substring(p, limit), this.bytes);
+    const ascii = encodeAsciiChunk(this.source, p, limit, this.bytes);
     this.base = p;
     this.limit = limit;
     this.bytes[limit - p] = LF;
-    return done.read === limit - p && done.written === limit - p;
+    return ascii;
   }
 }
 
@@ -129,6 +129,9 @@ function byteLevels(names: readonly string[]): ByteLevels {
   if (long) byEnd.fill(-2);
   return { names: bytes, indices, byEnd };
 }
+
+/** The lookup of a column that is not a factor's (never asked). */
+const NO_LEVELS = byteLevels([]);
 
 /** The level index of the cell `bytes[s, e)`, or -1. */
 function levelOf(levels: ByteLevels, bytes: Uint8Array, s: number, e: number): number {
@@ -171,7 +174,7 @@ class PlainReader {
     this.columnCount = kinds.length;
     this.kindOf = Int8Array.from(kinds);
     this.pipeAt = layout.pipeAt;
-    this.lookups = layout.levelNames.map((names) => byteLevels(names));
+    this.lookups = layout.levelNames.map((names, column) => (kinds[column] === PlainColumn.Factor ? byteLevels(names) : NO_LEVELS));
     this.levels = kinds.map((kind) => new Int32Array(kind === PlainColumn.Factor ? rowCount : 0));
     this.mantissas = kinds.map((kind) => new Float64Array(kind === PlainColumn.Value ? rowCount : 0));
     this.exponents = kinds.map((kind) => new Int8Array(kind === PlainColumn.Value ? rowCount : 0));
