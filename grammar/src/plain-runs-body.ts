@@ -11,8 +11,8 @@
  * and is read by `scanRunsTable` as before, with every problem in it.
  *
  * "Plain" is decided conservatively, so that `scanRunsTable` of the same body is certain to report no
- * problem inside a row: a quote or the word `excluded` anywhere in the body (comments included), a
- * second `|` in a row, or a lone carriage return makes the body not plain. Whether each row's `|` agrees
+ * problem inside a row: a quote or the word `excluded` in a row (before its comment; anywhere in a cell,
+ * as part of a longer word too), a second `|` in a row, or a lone carriage return makes the body not plain. Whether each row's `|` agrees
  * with the header's is left to the caller, which knows the header: `rowsWithPipe` says how many rows have
  * one.
  */
@@ -48,8 +48,8 @@ function found(at: number): number {
  * and byte-order marks) is a top-level keyword, or at `limit`.
  *
  * It hops from line feed to line feed with `indexOf` (the engine's search, far cheaper per character than
- * a loop in script) and looks only at each line's first word, its `|` and its `#`, found the same way;
- * quotes and the word `excluded` are looked for once in the whole body. A line with a lone carriage
+ * a loop in script) and looks only at each line's first word and at its `|`, `#`, quotes and `excluded`,
+ * each found the same way as the next one after the previous (a body with none costs one search). A line with a lone carriage
  * return (one not just before a line feed) makes the body not plain: the scanner splits rows there.
  */
 export function scanPlainRunsBody(source: string, start: number, limit: number = source.length): PlainRunsBody | undefined {
@@ -63,6 +63,8 @@ export function scanPlainRunsBody(source: string, start: number, limit: number =
   let nextPipe = found(source.indexOf("|", start));
   let nextHash = found(source.indexOf("#", start));
   let nextCr = found(source.indexOf("\r", lf));
+  let nextQuote = found(source.indexOf('"', start));
+  let nextExcluded = found(source.indexOf("excluded", start));
   let rowCount = 0;
   let rowsWithPipe = 0;
   let lastRowEnd = -1;
@@ -87,6 +89,8 @@ export function scanPlainRunsBody(source: string, start: number, limit: number =
       contentEnd = nextHash;
       nextHash = found(source.indexOf("#", lineEnd));
     }
+    // A quote or `excluded` before the comment: the scanner's general reader handles those rows.
+    if (nextQuote < contentEnd || nextExcluded < contentEnd) return undefined;
     if (q < contentEnd) {
       // A row: its first character is neither a blank nor `#`.
       let pipes = 0;
@@ -100,11 +104,11 @@ export function scanPlainRunsBody(source: string, start: number, limit: number =
       while (e > q && ((c = source.charCodeAt(e - 1)) === SPACE || c === TAB || c === BOM)) e--;
       lastRowEnd = e;
     }
-    // A `|` in a comment belongs to no row.
+    // A `|`, a quote or `excluded` in a comment belongs to no row.
     while (nextPipe < lineEnd) nextPipe = found(source.indexOf("|", nextPipe + 1));
+    while (nextQuote < lineEnd) nextQuote = found(source.indexOf('"', nextQuote + 1));
+    while (nextExcluded < lineEnd) nextExcluded = found(source.indexOf("excluded", nextExcluded + 1));
     lf = lineEnd;
   }
-  // Quotes and `excluded` (the scanner's general reader handles both) anywhere in the body: not plain.
-  if (found(source.indexOf('"', start)) < bodyEnd || found(source.indexOf("excluded", start)) < bodyEnd) return undefined;
   return { end: bodyEnd, rowCount, rowsWithPipe, lastRowEnd };
 }

@@ -147,7 +147,7 @@ describe("plain runs tables read in one pass", () => {
       y: value,
       z: value,
       gap: fc.constantFrom(" ", "  ", "\t"),
-      note: fc.constantFrom("", "", "", " # checked", "\t#"),
+      note: fc.constantFrom("", "", "", " # checked", "\t#", ' # "re-measured", excluded nothing'),
     });
     // Oddities put into some rows: each makes the plain reader decline, or (a comment or blank line)
     // tests its line handling.

@@ -27,13 +27,14 @@ function agreesWithScanner(text: string, start: number, limit?: number): boolean
 const HEADER = "runs id a b | y";
 
 describe("plain runs bodies (the quick pass)", () => {
-  it("calls the usual run sheets plain: LF or CRLF, blank lines, comments, tabs, a '|' in a comment", () => {
+  it("calls the usual run sheets plain: LF or CRLF, blank lines, comments, tabs, a '|', quote or 'excluded' in a comment", () => {
     const bodies = [
       "\n  r1 a1 b1 | 20.5\n  r2 a2 b2 | 21\n",
       "\r\n  r1 a1 b1 | 20.5\r\n\r\n  r2 a2 b2 | 21\r\n",
       "\n# shift 2 | night\n  r1\ta1\tb1\t|\t20.5   # re-measured\n\n  r2 a2 b2 | 21",
       "\n  r1 a1 b1 | 20.5\nconclusion \"done\"\n",
       "\n  r1 a1 b1 | 20.5\n  \uFEFFfactor c levels c1, c2\n",
+      '\n# exported by "logger v2"; excluded runs were removed | none\n  r1 a1 b1 | 20.5 # "re-measured"\n',
       "\n",
       "\n\n\n",
     ];
@@ -44,13 +45,14 @@ describe("plain runs bodies (the quick pass)", () => {
     assert.deepEqual(f.runs!.span, { start: 0, end: f.source.indexOf(" # note") });
   });
 
-  it("declines bodies with quotes, 'excluded', a second '|' or a lone CR, and the parser reads them in full", () => {
+  it("declines bodies with quotes or 'excluded' in a row, a second '|' or a lone CR, and the parser reads them in full", () => {
     const bodies = [
       '\n  r1 "a 1" b1 | 20.5\n',
       '\n  r1 a1 b1 | 20.5 excluded "probe slipped"\n',
       "\n  r1 a1 b1 | 20.5 | 3\n",
       "\n  r1 a1 b1 | 20.5\r  r2 a2 b2 | 21\n",
-      '\n  r1 a1 b1 | 20.5 # "quoted" in a comment\n',
+      '\n  r1 a1 b1 | 20.5 excluded # "why" in a comment\n',
+      "\n  r1 a1 b1 | 20.5\n  r2 notexcluded b2 | 21\n",
     ];
     for (const body of bodies) {
       assert.equal(scanPlainRunsBody(HEADER + body, HEADER.length), undefined, JSON.stringify(body));
@@ -76,7 +78,7 @@ describe("plain runs bodies (the quick pass)", () => {
       { weight: 10, arbitrary: fc.constantFrom("r1", "a2", "x", "17.5", "-3e2", "?", "elephant", "e1234567", "é") },
       { weight: 2, arbitrary: fc.constantFrom(...TOP_LEVEL_KEYWORDS, "runs-2", "plans", "Factor") },
       { weight: 1, arbitrary: fc.constantFrom('"q"', 'x"y', "excluded", 'excluded "why"') },
-      { weight: 3, arbitrary: fc.constantFrom("|", "#", "# note | x", "# \r note") },
+      { weight: 3, arbitrary: fc.constantFrom("|", "#", "# note | x", "# \r note", '# "q" note', "# excluded", 'x#"') },
     );
     const gap = fc.constantFrom(" ", "  ", "\t", " \uFEFF");
     const line = fc
