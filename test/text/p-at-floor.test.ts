@@ -9,6 +9,7 @@ import { studentizedRangeUpperTail } from "../../server/src/stats/distributions/
 import { comparisonPFloor, DUNNETT_P_FLOOR, STUDENTIZED_RANGE_P_FLOOR } from "../../server/src/stats/comparisons/p-floors.js";
 import { comparisonsText } from "../../server/src/text/comparisons-text.js";
 import { formatPAtFloor } from "../../server/src/text/format-number.js";
+import { dunnett } from "../../server/src/stats/comparisons/pairwise.js";
 import { analyzeDocument } from "../../server/src/analysis/analyze-document.js";
 
 describe("comparison p-values at their floor", () => {
@@ -20,9 +21,13 @@ describe("comparison p-values at their floor", () => {
     assert.equal(formatPAtFloor(2e-10, comparisonPFloor("tukey")), "2.0e-10");
     assert.equal(formatPAtFloor(0.0312, comparisonPFloor("tukey")), "0.0312");
     assert.equal(formatPAtFloor(null, comparisonPFloor("tukey")), formatPAtFloor(null, undefined));
-    // The floor is what the distribution gives far in the tail.
+    // The floors are what the distributions give far in the tail.
     assert.equal(studentizedRangeUpperTail(40, 4, 1000), STUDENTIZED_RANGE_P_FLOOR);
-    assert.equal(DUNNETT_P_FLOOR, 1e-9);
+    const separated = [{ n: 10, mean: 0, variance: 1 }, { n: 10, mean: 50, variance: 1 }, { n: 10, mean: 0.3, variance: 1 }];
+    const control = dunnett(separated, 0, { ms: 1, df: 27 }, 0.95);
+    assert.ok(control.ok);
+    assert.equal(control.pairs[0]!.p, DUNNETT_P_FLOOR);
+    assert.ok(control.pairs[1]!.p! > 0.1);
   });
 
   it("the CLI text shows widely separated levels as p < 1e-10", () => {

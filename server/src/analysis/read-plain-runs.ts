@@ -97,7 +97,8 @@ class AsciiWindow {
 
 /**
  * A factor's level names as byte strings, for lookups of ASCII cells: by (length, last byte) to the only
- * candidate where one exists, else by comparing with each name. A name with a character beyond ASCII can
+ * candidate where one exists, else by comparing with each name (the lookup of `findLevel` in
+ * build-design.ts, over bytes instead of the source string). A name with a character beyond ASCII can
  * never equal an ASCII cell and is left out.
  */
 interface ByteLevels {
