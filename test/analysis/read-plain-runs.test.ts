@@ -108,7 +108,7 @@ describe("plain runs tables read in one pass", () => {
     const head = `${DECLARATIONS}\nruns id a b t | y z\n`;
     const ok = (i: number) => `  r${i} a1 low 15 | 20 21\n`;
     const cases = [
-      "  r9 a1 low 15 | ? 21\n", // pending
+      "  r9 a1 low ? | 20 21\n", // a covariate not recorded
       "  r9 a4 low 15 | 20 21\n", // unknown level
       "  r9 a1 low 15 | 2e1 21\n", // not a plain decimal
       "  r9 a1 low 15 | 20\n", // a missing cell
@@ -123,6 +123,16 @@ describe("plain runs tables read in one pass", () => {
       const text = head + ok(1) + ok(2) + odd + ok(10);
       assert.equal(bothPathsAgree(text), false, odd);
     }
+    // A pending response is read, with the same note for its row (and the rows built for its spans).
+    const pending = head + ok(1) + "  r2 a1 low 15 | ? 21\n  r3 a2 high 16 | ? ?\n" + ok(10);
+    assert.equal(bothPathsAgree(pending), true);
+    const built = buildDesign(parseTrial(pending));
+    assert.deepEqual(
+      built.diagnostics.filter((d) => d.code === "pending-run").map((d) => d.message),
+      ["Run r2 is pending: y not measured yet.", "Run r3 is pending: y, z not measured yet."],
+    );
+    assert.deepEqual(Array.from(built.design.runs.responseStatus[1]!), [0, 0, 1, 0]);
+    assert.equal(built.design.runs.complete, undefined);
     // Columns the header names but the file does not declare are skipped by both.
     assert.equal(bothPathsAgree(`${DECLARATIONS}\nruns id a b t w | y z\n  r1 a1 low 15 0 | 20 21\n`), true);
   });

@@ -559,7 +559,7 @@ function readRuns(
   // A plain body (the usual large run sheet) is read in one pass straight into these columns when every
   // row is regular (read-plain-runs.ts); otherwise, or when that reader declines, the general path below.
   if (table?.plainBody) {
-    const plain = readPlainTable(file.source, table, table.plainBody, roles, factors, covariates, responses);
+    const plain = readPlainTable(file.source, table, table.plainBody, roles, factors, covariates, responses, sink);
     if (plain) return plain;
   }
   const levels = factors.map(() => new Int32Array(count).fill(-1));
@@ -787,8 +787,8 @@ function readRuns(
 
 /**
  * The runs of a plain table read by `readPlainRuns`, in the shape the general path gives the same rows
- * (every row regular and clean: levels known, values measured, ids increasing); `undefined` when the
- * reader declined. Cell indices are computed, not read: every row has exactly the header's cells, so cell
+ * (every row regular and clean: levels known, values measured or pending, ids increasing), with the same
+ * notes for pending runs; `undefined` when the reader declined. Cell indices are computed, not read: every row has exactly the header's cells, so cell
  * `k` of row `r` is global cell `r * columns + k` of the table's `RunRows`. Both the index arrays and the
  * `RunRows` are built on first access (getters, computed once).
  */
@@ -800,11 +800,20 @@ function readPlainTable(
   factors: readonly DesignFactor[],
   covariates: readonly DesignCovariate[],
   responses: readonly DesignResponse[],
+  sink: DiagnosticSink,
 ): DesignRuns | undefined {
   const count = table.rowCount;
   const layout: PlainRunsLayout = {
     kinds: roles.map((role) =>
-      role.kind === "id" ? PlainColumn.Id : role.kind === "factor" ? PlainColumn.Factor : role.kind === "unknown" ? PlainColumn.Skip : PlainColumn.Value,
+      role.kind === "id"
+        ? PlainColumn.Id
+        : role.kind === "factor"
+          ? PlainColumn.Factor
+          : role.kind === "response"
+            ? PlainColumn.Response
+            : role.kind === "covariate"
+              ? PlainColumn.Value
+              : PlainColumn.Skip,
     ),
     levelNames: roles.map((role) => (role.kind === "factor" ? factors[role.index]!.levels.map((l) => l.name) : [])),
     pipeAt: table.headerHasPipe ? table.responseStart : -1,
@@ -827,7 +836,8 @@ function readPlainTable(
     const stored: DecimalColumn[] = [];
     for (let i = 0; i < n; i++) {
       const column = columnOf(kind, i);
-      status.push(column >= 0 ? new Uint8Array(count) /* ValueStatus.Measured is 0 */ : new Uint8Array(count).fill(ValueStatus.Invalid));
+      // ValueStatus.Measured is 0 and Pending 1: the reader's marks of `?` are the statuses.
+      status.push(column >= 0 ? (read.pending[column] ?? new Uint8Array(count)) : new Uint8Array(count).fill(ValueStatus.Invalid));
       stored.push(column >= 0 ? read.values[column]! : decimalColumn(count));
     }
     // The cell indices are read only for a cell's text or span (hovers, diagnostics, the JSON residuals):
@@ -838,13 +848,14 @@ function readPlainTable(
   };
   const covariateColumns = values("covariate", covariates.length);
   const responseColumns = values("response", responses.length);
-  // Every variable has its column, so every run has every level and value.
+  // Every variable has its column and no response is pending, so every run has every level and value.
   const complete =
+    read.pendingRows.length === 0 &&
     factors.every((_, i) => columnOf("factor", i) >= 0) &&
     covariates.every((_, i) => columnOf("covariate", i) >= 0) &&
     responses.every((_, i) => columnOf("response", i) >= 0);
   let idCells: Int32Array | undefined;
-  return attachRunTexts({
+  const runs = attachRunTexts({
     count,
     source,
     get rows(): RunRows {
@@ -867,6 +878,9 @@ function readPlainTable(
     covariateValues: covariateColumns.stored,
     ...(complete ? { complete: true as const } : {}),
   });
+  // As the general path reports them: one note per row with a pending response (its spans build the rows).
+  for (const r of read.pendingRows) reportPendingAndExcluded(r, runs, responses, undefined, roles[0]?.kind === "id", sink);
+  return runs;
 }
 
 /** Largest number of levels looked up by comparing characters in place (beyond it, a map of names). */

@@ -10,11 +10,12 @@
  * the parser builds the cell columns only if something later asks for a cell's span or text.
  *
  * The result must be exactly what the general path (`readRuns` in `build-design.ts`) makes of the same
- * rows, and is tested against it. Anything this reader does not handle makes it return `undefined`
- * without side effects, and the general path reads the table with its diagnostics: an irregular row, an
- * unknown level, a pending `?`, a value that is not a plain decimal (an exponent, more than 15 digits from
- * the first nonzero one), ids that do not increase (a randomised sheet: the general path looks for repeats), a line
- * longer than `LONGEST_ROW`, a character beyond ASCII.
+ * rows, and is tested against it. A response's `?` (pending) is read too; the caller reports the rows
+ * that hold one. Anything this reader does not handle makes it return `undefined` without side effects,
+ * and the general path reads the table with its diagnostics: an irregular row, an unknown level, a
+ * covariate's `?`, a value that is not a plain decimal (an exponent, more than 15 digits from the first
+ * nonzero one), ids that do not increase (a randomised sheet: the general path looks for repeats), a
+ * line longer than `LONGEST_ROW`, a character beyond ASCII.
  */
 import { encodeAsciiChunk } from "../../../grammar/src/ascii-chunk.js";
 import type { DecimalColumn } from "../stats/decimal/center-decimals.js";
@@ -25,7 +26,10 @@ export const enum PlainColumn {
   Skip = 0,
   Id = 1,
   Factor = 2,
+  /** A covariate: a plain decimal. */
   Value = 3,
+  /** A response: a plain decimal, or `?` for a value not measured yet. */
+  Response = 4,
 }
 
 export interface PlainRunsLayout {
@@ -42,6 +46,10 @@ export interface PlainRuns {
   readonly levels: readonly Int32Array[];
   /** Per header column: its values per run (empty for columns that are not values). */
   readonly values: readonly DecimalColumn[];
+  /** Per header column: 1 where a response is pending (`?`); undefined for a column without any. */
+  readonly pending: readonly (Uint8Array | undefined)[];
+  /** The rows with a pending response, in order. */
+  readonly pendingRows: readonly number[];
 }
 
 const LF = 10;
@@ -53,6 +61,11 @@ const PIPE = 124;
 const PLUS = 43;
 const MINUS = 45;
 const POINT = 46;
+const QUESTION = 63;
+
+function isValue(kind: PlainColumn): boolean {
+  return kind === PlainColumn.Value || kind === PlainColumn.Response;
+}
 
 /** Characters encoded at a time. */
 const CHUNK = 65536;
@@ -167,6 +180,10 @@ class PlainReader {
   readonly levels: Int32Array[];
   readonly mantissas: Float64Array[];
   readonly exponents: Int8Array[];
+  /** Made when a column's first `?` is read. */
+  readonly pending: (Uint8Array | undefined)[];
+  readonly pendingRows: number[] = [];
+  readonly rowCount: number;
   row = 0;
   previousId = -1;
 
@@ -177,8 +194,10 @@ class PlainReader {
     this.pipeAt = layout.pipeAt;
     this.lookups = layout.levelNames.map((names, column) => (kinds[column] === PlainColumn.Factor ? byteLevels(names) : NO_LEVELS));
     this.levels = kinds.map((kind) => new Int32Array(kind === PlainColumn.Factor ? rowCount : 0));
-    this.mantissas = kinds.map((kind) => new Float64Array(kind === PlainColumn.Value ? rowCount : 0));
-    this.exponents = kinds.map((kind) => new Int8Array(kind === PlainColumn.Value ? rowCount : 0));
+    this.mantissas = kinds.map((kind) => new Float64Array(isValue(kind) ? rowCount : 0));
+    this.exponents = kinds.map((kind) => new Int8Array(isValue(kind) ? rowCount : 0));
+    this.pending = kinds.map(() => undefined);
+    this.rowCount = rowCount;
   }
 }
 
@@ -215,7 +234,13 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
     }
     if (column >= columnCount || (pipeAt >= 0 && pipeSeen !== column >= pipeAt)) return -1;
     const what = reader.kindOf[column];
-    if (what === PlainColumn.Value) {
+    if (what === PlainColumn.Response && c === QUESTION && endsCell[bytes[i + 1]!] !== 0) {
+      // `?`: a response not measured yet (the general path's `readValue`).
+      (reader.pending[column] ??= new Uint8Array(reader.rowCount))[row] = 1;
+      const rows = reader.pendingRows;
+      if (rows.length === 0 || rows[rows.length - 1] !== row) rows.push(row);
+      i++;
+    } else if (what === PlainColumn.Value || what === PlainColumn.Response) {
       // A plain decimal, stored as `storePlainDecimal` (center-decimals.ts) stores it: an optional sign,
       // digits with at most one point. Every digit is accumulated (leading zeros add nothing, trailing
       // ones are divided out below), which is exact while the integer stays below 10^15; a longer one is
@@ -324,5 +349,5 @@ export function readPlainRuns(source: string, start: number, end: number, rowCou
   }
   if (reader.row !== rowCount) return undefined;
   const values = reader.mantissas.map((mantissa, column) => ({ mantissa, exponent: reader.exponents[column]! }));
-  return { levels: reader.levels, values };
+  return { levels: reader.levels, values, pending: reader.pending, pendingRows: reader.pendingRows };
 }
