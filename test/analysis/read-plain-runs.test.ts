@@ -123,7 +123,7 @@ describe("plain runs tables read in one pass", () => {
       const text = head + ok(1) + ok(2) + odd + ok(10);
       assert.equal(bothPathsAgree(text), false, odd);
     }
-    // A pending response is read, with the same note for its row (and the rows built for its spans).
+    // A pending response is read, with the same note for its row (from the cells the reader recorded).
     const pending = head + ok(1) + "  r2 a1 low 15 | ? 21\n  r3 a2 high 16 | ? ?\n" + ok(10);
     assert.equal(bothPathsAgree(pending), true);
     const built = buildDesign(parseTrial(pending));
@@ -133,6 +133,8 @@ describe("plain runs tables read in one pass", () => {
     );
     assert.deepEqual(Array.from(built.design.runs.responseStatus[1]!), [0, 0, 1, 0]);
     assert.equal(built.design.runs.complete, undefined);
+    // Responses written in another order than declared, and no id column: the same notes as the general path.
+    assert.equal(bothPathsAgree(`${DECLARATIONS}\nruns a b t | z y\n  a1 low 15 | 21 ?\n  a2 high 16 | ? ?\n  a1 low 15 | ? 20\n`), true);
     // Columns the header names but the file does not declare are skipped by both.
     assert.equal(bothPathsAgree(`${DECLARATIONS}\nruns id a b t w | y z\n  r1 a1 low 15 0 | 20 21\n`), true);
   });

@@ -878,8 +878,22 @@ function readPlainTable(
     covariateValues: covariateColumns.stored,
     ...(complete ? { complete: true as const } : {}),
   });
-  // As the general path reports them: one note per row with a pending response (its spans build the rows).
-  for (const r of read.pendingRows) reportPendingAndExcluded(r, runs, responses, undefined, roles[0]?.kind === "id", sink);
+  // As the general path reports them: one note per row with a pending response, from the cells the reader
+  // recorded (the table's rows are not built for them).
+  const cells = read.pendingCells;
+  for (let at = 0; at < cells.length; ) {
+    const r = cells[at]!;
+    const idStart = cells[at + 4]!;
+    const label = idStart >= 0 ? `Run ${source.slice(idStart, cells[at + 5]!)}` : `Run ${r + 1}`;
+    const spans = new Map<number, Span>();
+    for (; at < cells.length && cells[at] === r; at += 6) spans.set(cells[at + 1]!, { start: cells[at + 2]!, end: cells[at + 3]! });
+    const pending = responses.flatMap((response, k) => {
+      const span = spans.get(columnOf("response", k));
+      return span ? [{ name: response.name, span }] : [];
+    });
+    const note = pendingNote(label, pending);
+    if (note) sink.add(note);
+  }
   return runs;
 }
 
@@ -1098,20 +1112,19 @@ function reportPendingAndExcluded(
     );
     return;
   }
-  let start = -1;
-  let end = -1;
-  const pending: string[] = [];
-  responses.forEach((resp, k) => {
-    if (runs.responseStatus[k]![r] === ValueStatus.Pending) {
-      const span = responseSpan(runs, k, r)!;
-      if (start < 0) start = span.start;
-      end = span.end;
-      pending.push(resp.name);
-    }
-  });
-  if (pending.length > 0) {
-    sink.add(diagnostic("pending-run", { start, end }, `${label} is pending: ${pending.join(", ")} not measured yet.`));
-  }
+  const pending = responses.flatMap((response, k) => (runs.responseStatus[k]![r] === ValueStatus.Pending ? [{ name: response.name, span: responseSpan(runs, k, r)! }] : []));
+  const note = pendingNote(label, pending);
+  if (note) sink.add(note);
+}
+
+/**
+ * The `pending-run` note of a run whose responses `pending` (in declaration order, with their cells) are
+ * not measured yet; undefined when none is. It spans the first to the last of those cells.
+ */
+function pendingNote(label: string, pending: readonly { readonly name: string; readonly span: Span }[]): Diagnostic | undefined {
+  if (pending.length === 0) return undefined;
+  const span = { start: pending[0]!.span.start, end: pending[pending.length - 1]!.span.end };
+  return diagnostic("pending-run", span, `${label} is pending: ${pending.map((p) => p.name).join(", ")} not measured yet.`);
 }
 
 // ---------------------------------------------------------------------------------------------------------

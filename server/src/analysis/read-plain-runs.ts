@@ -50,6 +50,12 @@ export interface PlainRuns {
   readonly pending: readonly (Uint8Array | undefined)[];
   /** The rows with a pending response, in order. */
   readonly pendingRows: readonly number[];
+  /**
+   * Each pending cell, in text order, as six numbers: row, header column, the cell's start and end
+   * offsets, and its row's id cell's start and end (-1 without an id column); so that the notes for
+   * pending rows need no `RunRows`.
+   */
+  readonly pendingCells: readonly number[];
 }
 
 const LF = 10;
@@ -183,7 +189,10 @@ class PlainReader {
   /** Made when a column's first `?` is read. */
   readonly pending: (Uint8Array | undefined)[];
   readonly pendingRows: number[] = [];
+  readonly pendingCells: number[] = [];
   readonly rowCount: number;
+  /** The offset of `bytes[0]` in the source (the chunk's start). */
+  base = 0;
   row = 0;
   previousId = -1;
 
@@ -215,6 +224,8 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
   const row = reader.row;
   let column = 0;
   let pipeSeen = false;
+  let idStart = -1;
+  let idEnd = -1;
   for (;;) {
     let c = bytes[i]!;
     if (c === SPACE || c === TAB) {
@@ -239,6 +250,8 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
       (reader.pending[column] ??= new Uint8Array(reader.rowCount))[row] = 1;
       const rows = reader.pendingRows;
       if (rows.length === 0 || rows[rows.length - 1] !== row) rows.push(row);
+      const base = reader.base;
+      reader.pendingCells.push(row, column, base + i, base + i + 1, idStart < 0 ? -1 : base + idStart, idStart < 0 ? -1 : base + idEnd);
       i++;
     } else if (what === PlainColumn.Value || what === PlainColumn.Response) {
       // A plain decimal, stored as `storePlainDecimal` (center-decimals.ts) stores it: an optional sign,
@@ -285,6 +298,7 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
       // (duplicate-run-ids.ts), which proves ids distinct when these grow from row to row.
       let value = 0;
       let digits = 0;
+      idStart = i;
       while (endsCell[(c = bytes[i]!)] === 0) {
         const digit = c - 48;
         if (digit >= 0 && digit <= 9) {
@@ -298,6 +312,7 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
       }
       if (digits === 0 || digits > 15 || value <= reader.previousId) return -1;
       reader.previousId = value;
+      idEnd = i;
     } else {
       while (endsCell[bytes[i]!] === 0) i++;
     }
@@ -340,6 +355,7 @@ export function readPlainRuns(source: string, start: number, end: number, rowCou
       while ((c = bytes[i]!) !== LF && c !== CR) i++;
     } else {
       if (reader.row === rowCount) return undefined;
+      reader.base = base;
       i = readRow(reader, bytes, i);
       if (i < 0) return undefined;
       reader.row++;
@@ -349,5 +365,5 @@ export function readPlainRuns(source: string, start: number, end: number, rowCou
   }
   if (reader.row !== rowCount) return undefined;
   const values = reader.mantissas.map((mantissa, column) => ({ mantissa, exponent: reader.exponents[column]! }));
-  return { levels: reader.levels, values, pending: reader.pending, pendingRows: reader.pendingRows };
+  return { levels: reader.levels, values, pending: reader.pending, pendingRows: reader.pendingRows, pendingCells: reader.pendingCells };
 }
