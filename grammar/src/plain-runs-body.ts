@@ -12,11 +12,12 @@
  *
  * "Plain" is decided conservatively, so that `scanRunsTable` of the same body is certain to report no
  * problem inside a row: a quote or the word `excluded` in a row (before its comment; anywhere in a cell,
- * as part of a longer word too), a second `|` in a row, or a lone carriage return makes the body not plain. Whether each row's `|` agrees
- * with the header's is left to the caller, which knows the header: `rowsWithPipe` says how many rows have
- * one.
+ * as part of a longer word too), a second `|` in a row, or a lone carriage return makes the body not
+ * plain. Whether each row's `|` agrees with the header's is left to the caller, which knows the header:
+ * `rowsWithPipe` says how many rows have one.
  */
 import { isTopLevelKeywordAt } from "./top-level-keywords.js";
+import { Char } from "./char-codes.js";
 
 /** What the quick pass found in a plain body. */
 export interface PlainRunsBody {
@@ -30,11 +31,6 @@ export interface PlainRunsBody {
   readonly lastRowEnd: number;
 }
 
-const LF = 10;
-const CR = 13;
-const SPACE = 32;
-const TAB = 9;
-const BOM = 0xfeff;
 
 /** An `indexOf` result as a position: "not found" is past every position. */
 function found(at: number): number {
@@ -56,10 +52,10 @@ export function scanPlainRunsBody(source: string, start: number, limit: number =
   const end = Math.max(start, Math.min(limit, source.length));
   if (start >= end) return undefined;
   let lf = start;
-  if (source.charCodeAt(start) === CR) {
-    if (start + 1 >= end || source.charCodeAt(start + 1) !== LF) return undefined;
+  if (source.charCodeAt(start) === Char.CR) {
+    if (start + 1 >= end || source.charCodeAt(start + 1) !== Char.LF) return undefined;
     lf = start + 1;
-  } else if (source.charCodeAt(start) !== LF) return undefined;
+  } else if (source.charCodeAt(start) !== Char.LF) return undefined;
   let nextPipe = found(source.indexOf("|", start));
   let nextHash = found(source.indexOf("#", start));
   let nextCr = found(source.indexOf("\r", lf));
@@ -74,7 +70,7 @@ export function scanPlainRunsBody(source: string, start: number, limit: number =
     const lineEnd = Math.min(found(source.indexOf("\n", lineStart)), end);
     let q = lineStart;
     let c = 0;
-    while (q < lineEnd && ((c = source.charCodeAt(q)) === SPACE || c === TAB || c === BOM)) q++;
+    while (q < lineEnd && ((c = source.charCodeAt(q)) === Char.Space || c === Char.Tab || c === Char.BOM)) q++;
     if (q < lineEnd && isTopLevelKeywordAt(source, q)) {
       bodyEnd = lineStart;
       break;
@@ -101,7 +97,7 @@ export function scanPlainRunsBody(source: string, start: number, limit: number =
       rowCount++;
       if (pipes > 0) rowsWithPipe++;
       let e = contentEnd;
-      while (e > q && ((c = source.charCodeAt(e - 1)) === SPACE || c === TAB || c === BOM)) e--;
+      while (e > q && ((c = source.charCodeAt(e - 1)) === Char.Space || c === Char.Tab || c === Char.BOM)) e--;
       lastRowEnd = e;
     }
     // A `|`, a quote or `excluded` in a comment belongs to no row.

@@ -4,6 +4,8 @@
  * It finds where the table ends itself (the first line, after a line feed, whose first word is a
  * top-level keyword), so the lexer's `RunsBody` matcher runs it once and hands the result to the AST
  * builder as the token's payload: the body is read once, not once to find its end and again to split it.
+ * A plain body is not read here while parsing (`plain-runs-body.ts`): its rows are scanned here when
+ * first asked for (`RunsTable.rows`).
  *
  * A tight loop over character codes, with no object and no regular expression per cell: a million-run
  * table is about 24 MB of text and must be read in about a tenth of a second. One table load per
@@ -19,6 +21,7 @@ import { CellFlag, type ExcludedMark, type RunRows, type SyntaxProblem } from ".
 import { encodeAsciiChunk } from "./ascii-chunk.js";
 import { estimateLineFeeds } from "./line-density.js";
 import { isTopLevelKeywordAt } from "./top-level-keywords.js";
+import { Char } from "./char-codes.js";
 
 /**
  * What one pass over a runs-table body found, before the header is known. The checks that compare a
@@ -40,15 +43,6 @@ export interface RunsBodyScan {
   readonly rowsWithPipe: number;
 }
 
-const LF = 10;
-const CR = 13;
-const SPACE = 32;
-const TAB = 9;
-const QUOTE = 34;
-const HASH = 35;
-const PIPE = 124;
-const BACKSLASH = 92;
-const BOM = 0xfeff;
 
 /**
  * Character classes, one byte per UTF-16 code unit, so the cell loop makes one table load per character
@@ -61,24 +55,26 @@ const K_HASH = 4;
 const K_QUOTE = 5; // ends nothing inside a bare cell (a stray quote), starts a quoted cell
 const CLASS: Uint8Array = (() => {
   const table = new Uint8Array(65536);
-  table[SPACE] = K_BLANK;
-  table[TAB] = K_BLANK;
-  table[BOM] = K_BLANK;
-  table[LF] = K_BREAK;
-  table[CR] = K_BREAK;
-  table[PIPE] = K_PIPE;
-  table[HASH] = K_HASH;
-  table[QUOTE] = K_QUOTE;
+  table[Char.Space] = K_BLANK;
+  table[Char.Tab] = K_BLANK;
+  table[Char.BOM] = K_BLANK;
+  table[Char.LF] = K_BREAK;
+  table[Char.CR] = K_BREAK;
+  table[Char.Pipe] = K_PIPE;
+  table[Char.Hash] = K_HASH;
+  table[Char.Quote] = K_QUOTE;
   return table;
 })();
 
 function isBlank(c: number): boolean {
-  return c === SPACE || c === TAB || c === BOM;
+  return c === Char.Space || c === Char.Tab || c === Char.BOM;
 }
 
 /** True for characters that end an unquoted cell. */
 function endsBareCell(c: number): boolean {
-  return c === SPACE || c === TAB || c === PIPE || c === HASH || c === LF || c === CR || c === BOM;
+  return (
+    c === Char.Space || c === Char.Tab || c === Char.Pipe || c === Char.Hash || c === Char.LF || c === Char.CR || c === Char.BOM
+  );
 }
 
 /** True when `source[start, end)` is exactly the word `excluded`. */
@@ -215,14 +211,14 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
     // table ends if the line's first word (after spaces, tabs and byte-order marks, the blanks of a row)
     // is a top-level keyword: that line starts the next declaration.
     let c = source.charCodeAt(p);
-    if (c === LF || c === CR) {
+    if (c === Char.LF || c === Char.CR) {
       p++;
-      if (c === CR) {
-        if (p >= end || source.charCodeAt(p) !== LF) continue;
+      if (c === Char.CR) {
+        if (p >= end || source.charCodeAt(p) !== Char.LF) continue;
         p++;
       }
       let q = p;
-      while (q < end && ((c = source.charCodeAt(q)) === SPACE || c === TAB || c === BOM)) q++;
+      while (q < end && ((c = source.charCodeAt(q)) === Char.Space || c === Char.Tab || c === Char.BOM)) q++;
       if (q < end && isTopLevelKeywordAt(source, q)) {
         bodyEnd = p;
         break;
@@ -235,9 +231,9 @@ export function scanRunsTable(source: string, start: number, limit: number = sou
       do p++;
       while (p < end && table[(c = source.charCodeAt(p))] === K_BLANK);
       if (p >= end) break;
-      if (c === LF || c === CR) continue;
+      if (c === Char.LF || c === Char.CR) continue;
     }
-    if (c === HASH) {
+    if (c === Char.Hash) {
       p = skipToLineEnd(source, p, end);
       continue;
     }
@@ -549,7 +545,7 @@ function readRow(b: RowsBuilder, source: string, p: number, end: number): number
       // `excluded "reason"`: the reason must follow, quoted.
       let r = p;
       while (r < end && isBlank(source.charCodeAt(r))) r++;
-      if (r < end && source.charCodeAt(r) === QUOTE) {
+      if (r < end && source.charCodeAt(r) === Char.Quote) {
         const qEnd = scanQuoted(source, r, end);
         const terminated = lastQuotedTerminated;
         if (!terminated) {
@@ -634,7 +630,7 @@ export function runsBodyProblems(scan: RunsBodyScan, headerHasPipe: boolean): Sy
 function skipToLineEnd(source: string, p: number, end: number): number {
   while (p < end) {
     const c = source.charCodeAt(p);
-    if (c === LF || c === CR) break;
+    if (c === Char.LF || c === Char.CR) break;
     p++;
   }
   return p;
@@ -643,8 +639,8 @@ function skipToLineEnd(source: string, p: number, end: number): number {
 function skipToCommentOrLineEnd(source: string, p: number, end: number): number {
   while (p < end) {
     const c = source.charCodeAt(p);
-    if (c === LF || c === CR || c === HASH) break;
-    if (c === QUOTE) {
+    if (c === Char.LF || c === Char.CR || c === Char.Hash) break;
+    if (c === Char.Quote) {
       p = scanQuoted(source, p, end);
       continue;
     }
@@ -669,14 +665,14 @@ function scanQuoted(source: string, p: number, end: number): number {
   p++;
   while (p < end) {
     const c = source.charCodeAt(p);
-    if (c === QUOTE) {
+    if (c === Char.Quote) {
       lastQuotedTerminated = true;
       return p + 1;
     }
-    if (c === LF || c === CR) break;
-    if (c === BACKSLASH && p + 1 < end) {
+    if (c === Char.LF || c === Char.CR) break;
+    if (c === Char.Backslash && p + 1 < end) {
       const d = source.charCodeAt(p + 1);
-      if (d !== LF && d !== CR) {
+      if (d !== Char.LF && d !== Char.CR) {
         p += 2;
         continue;
       }

@@ -5,7 +5,8 @@
  * lexes the header line's column names and `|` and then hands the whole table body to one `RunsBody`
  * token. The body is split into rows and cells by the hand-written scanner in `runs-scanner.ts`,
  * because one token object per cell would cost far too much on a million-run file; the token's matcher
- * runs that scanner (it alone knows where the table ends) and passes the rows on as the token's payload.
+ * finds where the table ends itself (the quick pass of `plain-runs-body.ts`, or that scanner) and passes
+ * what it read on as the token's payload.
  *
  * Keywords are declared ahead of `Identifier` with `longer_alt`, so `levelsX` stays an identifier
  * (the keyword-versus-identifier pattern from the Chevrotain examples).
@@ -14,6 +15,7 @@ import { createToken, Lexer, type CustomPatternMatcherReturn, type TokenType } f
 import { scanPlainRunsBody } from "./plain-runs-body.js";
 import { scanRunsTable } from "./runs-scanner.js";
 import { TOP_LEVEL_KEYWORDS, lineStartsWithTopLevelKeyword } from "./top-level-keywords.js";
+import { Char } from "./char-codes.js";
 
 export { TOP_LEVEL_KEYWORDS, isTopLevelKeyword, lineStartsWithTopLevelKeyword } from "./top-level-keywords.js";
 
@@ -56,8 +58,6 @@ export const CONTEXTUAL_KEYWORDS = [
 /** Every keyword of the language: the top-level ones followed by the contextual ones. */
 export const ALL_KEYWORDS: readonly string[] = [...TOP_LEVEL_KEYWORDS, ...CONTEXTUAL_KEYWORDS];
 
-const CH_LF = 10;
-const CH_CR = 13;
 
 /** Where a `"""` text block starting at `offset` ends, and whether its closing fence was found. */
 export interface TextBlockExtent {
@@ -84,7 +84,7 @@ export function scanTextBlock(text: string, offset: number): TextBlockExtent {
   while (nl >= 0) {
     if (lineStartsWithTopLevelKeyword(text, nl + 1)) {
       // End before the line break, so the break itself is whitespace of the main mode.
-      const end = nl > offset && text.charCodeAt(nl - 1) === CH_CR ? nl - 1 : nl;
+      const end = nl > offset && text.charCodeAt(nl - 1) === Char.CR ? nl - 1 : nl;
       return { end: Math.max(end, offset + 3), terminated: false };
     }
     nl = text.indexOf("\n", nl + 1);
@@ -104,14 +104,14 @@ function matchTextBlock(wantTerminated: boolean) {
 /**
  * Matches the body of a runs table: from the line break that ends the header line up to (not including)
  * the first line whose first word is a top-level keyword, or the end of the text. One token, however
- * many rows. Finding that end means reading every row, so the matcher runs the row scanner of
- * `runs-scanner.ts` itself and hands its result to the AST builder as the token's payload: the body is
- * read once. The payload lives as long as the token, so nothing is kept between parses.
+ * many rows. Finding that end means looking at every line, so the matcher reads the body itself and
+ * hands the result to the AST builder as the token's payload: for a plain body (most of them), the quick
+ * pass of `plain-runs-body.ts`, which stores nothing per row; for any other, the rows read by the scanner
+ * of `runs-scanner.ts`. The payload lives as long as the token, so nothing is kept between parses.
  */
 function matchRunsBody(text: string, offset: number): CustomPatternMatcherReturn | null {
   const c = text.charCodeAt(offset);
-  if (c !== CH_LF && c !== CH_CR) return null;
-  // Most bodies are plain: the quick pass finds their end and stores nothing per row (plain-runs-body.ts).
+  if (c !== Char.LF && c !== Char.CR) return null;
   const scan = scanPlainRunsBody(text, offset) ?? scanRunsTable(text, offset);
   const match = [text.slice(offset, scan.end)] as CustomPatternMatcherReturn;
   match.payload = scan;

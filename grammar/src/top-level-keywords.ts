@@ -4,6 +4,7 @@
  * Kept apart from `tokens.ts` so that the runs-table scanner (which `tokens.ts` runs from inside the
  * lexer) can use the line test without an import cycle. `tokens.ts` re-exports everything here.
  */
+import { Char } from "./char-codes.js";
 
 /** Top-level keywords: they start a declaration and are reserved everywhere (quote a name equal to one). */
 export const TOP_LEVEL_KEYWORDS = [
@@ -26,9 +27,6 @@ export function isTopLevelKeyword(word: string): boolean {
   return TOP_LEVEL_SET.has(word);
 }
 
-const SPACE = 32;
-const TAB = 9;
-const BOM = 0xfeff;
 
 /**
  * The top-level keywords grouped by first character (ASCII code), so the line test compares a word with
@@ -94,7 +92,7 @@ export function lineStartsWithTopLevelKeyword(text: string, lineStart: number): 
   let p = lineStart;
   const n = text.length;
   let c = p < n ? text.charCodeAt(p) : -1;
-  while (c === SPACE || c === TAB || c === BOM) {
+  while (c === Char.Space || c === Char.Tab || c === Char.BOM) {
     p++;
     c = p < n ? text.charCodeAt(p) : -1;
   }
