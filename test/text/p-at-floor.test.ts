@@ -6,7 +6,7 @@
  */
 import assert from "node:assert/strict";
 import { studentizedRangeUpperTail } from "../../server/src/stats/distributions/studentized-range.js";
-import { comparisonPFloor, DUNNETT_P_FLOOR, STUDENTIZED_RANGE_P_FLOOR } from "../../server/src/stats/comparisons/p-floors.js";
+import { comparisonPFloor, DUNNETT_P_FLOOR, STUDENTIZED_RANGE_P_FLOOR } from "../../server/src/stats/distributions/p-floors.js";
 import { comparisonsText } from "../../server/src/text/comparisons-text.js";
 import { formatPAtFloor } from "../../server/src/text/format-number.js";
 import { dunnett } from "../../server/src/stats/comparisons/pairwise.js";

@@ -826,34 +826,27 @@ function readPlainTable(
     for (let r = 0, cell = column; r < count; r++, cell += columns) cells[r] = cell;
     return cells;
   };
-  const columnOf = (kind: "factor" | "covariate" | "response", index: number) => roles.findIndex((role) => role.kind === kind && role.index === index);
-  const levels = factors.map((_, i) => {
-    const column = columnOf("factor", i);
-    return column >= 0 ? read.levels[column]! : new Int32Array(count).fill(-1);
-  });
-  const values = (kind: "covariate" | "response", n: number) => {
-    const status: Uint8Array[] = [];
-    const stored: DecimalColumn[] = [];
-    for (let i = 0; i < n; i++) {
-      const column = columnOf(kind, i);
-      // ValueStatus.Measured is 0 and Pending 1: the reader's marks of `?` are the statuses.
-      status.push(column >= 0 ? (read.pending[column] ?? new Uint8Array(count)) : new Uint8Array(count).fill(ValueStatus.Invalid));
-      stored.push(column >= 0 ? read.values[column]! : decimalColumn(count));
-    }
+  // The header column of each variable, -1 for one without a column.
+  const columnOf = (kind: "factor" | "covariate" | "response", n: number) =>
+    Array.from({ length: n }, (_, i) => roles.findIndex((role) => role.kind === kind && role.index === i));
+  const factorColumns = columnOf("factor", factors.length);
+  const levels = factorColumns.map((column) => (column >= 0 ? read.levels[column]! : new Int32Array(count).fill(-1)));
+  const values = (valueColumns: readonly number[]) => {
+    // ValueStatus.Measured is 0 and Pending 1: the reader's marks of `?` are the statuses.
+    const status = valueColumns.map((column) => (column >= 0 ? (read.pending[column] ?? new Uint8Array(count)) : new Uint8Array(count).fill(ValueStatus.Invalid)));
+    const stored = valueColumns.map((column) => (column >= 0 ? read.values[column]! : decimalColumn(count)));
     // The cell indices are read only for a cell's text or span (hovers, diagnostics, the JSON residuals):
     // made on first access, they cost a large table nothing otherwise.
     let cells: Int32Array[] | undefined;
-    const cellsOfAll = () => (cells ??= Array.from({ length: n }, (_, i) => (columnOf(kind, i) >= 0 ? cellsOf(columnOf(kind, i)) : new Int32Array(count).fill(-1))));
+    const cellsOfAll = () => (cells ??= valueColumns.map((column) => (column >= 0 ? cellsOf(column) : new Int32Array(count).fill(-1))));
     return { cellsOfAll, status, stored };
   };
-  const covariateColumns = values("covariate", covariates.length);
-  const responseColumns = values("response", responses.length);
+  const covariateColumns = columnOf("covariate", covariates.length);
+  const responseColumns = columnOf("response", responses.length);
+  const covariateValues = values(covariateColumns);
+  const responseValues = values(responseColumns);
   // Every variable has its column and no response is pending, so every run has every level and value.
-  const complete =
-    read.pendingRows.length === 0 &&
-    factors.every((_, i) => columnOf("factor", i) >= 0) &&
-    covariates.every((_, i) => columnOf("covariate", i) >= 0) &&
-    responses.every((_, i) => columnOf("response", i) >= 0);
+  const complete = read.pendingCells.length === 0 && [...factorColumns, ...covariateColumns, ...responseColumns].every((column) => column >= 0);
   let idCells: Int32Array | undefined;
   const runs = attachRunTexts({
     count,
@@ -865,17 +858,17 @@ function readPlainTable(
       return (idCells ??= roles[0]?.kind === "id" ? cellsOf(0) : new Int32Array(count).fill(-1));
     },
     get responseCells(): readonly Int32Array[] {
-      return responseColumns.cellsOfAll();
+      return responseValues.cellsOfAll();
     },
     get covariateCells(): readonly Int32Array[] {
-      return covariateColumns.cellsOfAll();
+      return covariateValues.cellsOfAll();
     },
     levels,
-    covariateStatus: covariateColumns.status,
-    responseStatus: responseColumns.status,
+    covariateStatus: covariateValues.status,
+    responseStatus: responseValues.status,
     excluded: new Uint8Array(count),
-    responseValues: responseColumns.stored,
-    covariateValues: covariateColumns.stored,
+    responseValues: responseValues.stored,
+    covariateValues: covariateValues.stored,
     ...(complete ? { complete: true as const } : {}),
   });
   // As the general path reports them: one note per row with a pending response, from the cells the reader
@@ -888,7 +881,7 @@ function readPlainTable(
     const spans = new Map<number, Span>();
     for (; at < cells.length && cells[at] === r; at += 6) spans.set(cells[at + 1]!, { start: cells[at + 2]!, end: cells[at + 3]! });
     const pending = responses.flatMap((response, k) => {
-      const span = spans.get(columnOf("response", k));
+      const span = spans.get(responseColumns[k]!);
       return span ? [{ name: response.name, span }] : [];
     });
     const note = pendingNote(label, pending);

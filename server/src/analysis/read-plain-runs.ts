@@ -19,6 +19,7 @@
  */
 import { encodeAsciiChunk } from "../../../grammar/src/ascii-chunk.js";
 import type { DecimalColumn } from "../stats/decimal/center-decimals.js";
+import { Char } from "../../../grammar/src/char-codes.js";
 
 /** What each header column holds, for the reader. */
 export const enum PlainColumn {
@@ -48,26 +49,14 @@ export interface PlainRuns {
   readonly values: readonly DecimalColumn[];
   /** Per header column: 1 where a response is pending (`?`); undefined for a column without any. */
   readonly pending: readonly (Uint8Array | undefined)[];
-  /** The rows with a pending response, in order. */
-  readonly pendingRows: readonly number[];
   /**
-   * Each pending cell, in text order, as six numbers: row, header column, the cell's start and end
+   * Each pending cell (a response's `?`), in text order, as six numbers: row, header column, the cell's start and end
    * offsets, and its row's id cell's start and end (-1 without an id column); so that the notes for
    * pending rows need no `RunRows`.
    */
   readonly pendingCells: readonly number[];
 }
 
-const LF = 10;
-const CR = 13;
-const SPACE = 32;
-const TAB = 9;
-const HASH = 35;
-const PIPE = 124;
-const PLUS = 43;
-const MINUS = 45;
-const POINT = 46;
-const QUESTION = 63;
 
 function isValue(kind: PlainColumn): boolean {
   return kind === PlainColumn.Value || kind === PlainColumn.Response;
@@ -84,7 +73,7 @@ const LONGEST_ROW = 4096;
  */
 const ENDS_CELL: Uint8Array = (() => {
   const table = new Uint8Array(256);
-  for (const c of [SPACE, TAB, LF, CR, PIPE, HASH]) table[c] = 1;
+  for (const c of [Char.Space, Char.Tab, Char.LF, Char.CR, Char.Pipe, Char.Hash]) table[c] = 1;
   return table;
 })();
 
@@ -109,7 +98,7 @@ class AsciiWindow {
     const ascii = encodeAsciiChunk(this.source, p, limit, this.bytes);
     this.base = p;
     this.limit = limit;
-    this.bytes[limit - p] = LF;
+    this.bytes[limit - p] = Char.LF;
     return ascii;
   }
 }
@@ -188,7 +177,6 @@ class PlainReader {
   readonly exponents: Int8Array[];
   /** Made when a column's first `?` is read. */
   readonly pending: (Uint8Array | undefined)[];
-  readonly pendingRows: number[] = [];
   readonly pendingCells: number[] = [];
   readonly rowCount: number;
   /** The offset of `bytes[0]` in the source (the chunk's start). */
@@ -228,16 +216,16 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
   let idEnd = -1;
   for (;;) {
     let c = bytes[i]!;
-    if (c === SPACE || c === TAB) {
+    if (c === Char.Space || c === Char.Tab) {
       i++;
       continue;
     }
-    if (c === LF || c === CR) break;
-    if (c === HASH) {
-      while ((c = bytes[i]!) !== LF && c !== CR) i++;
+    if (c === Char.LF || c === Char.CR) break;
+    if (c === Char.Hash) {
+      while ((c = bytes[i]!) !== Char.LF && c !== Char.CR) i++;
       break;
     }
-    if (c === PIPE) {
+    if (c === Char.Pipe) {
       if (column !== pipeAt || pipeSeen) return -1;
       pipeSeen = true;
       i++;
@@ -245,13 +233,12 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
     }
     if (column >= columnCount || (pipeAt >= 0 && pipeSeen !== column >= pipeAt)) return -1;
     const what = reader.kindOf[column];
-    if (what === PlainColumn.Response && c === QUESTION && endsCell[bytes[i + 1]!] !== 0) {
+    if (what === PlainColumn.Response && c === Char.Question && endsCell[bytes[i + 1]!] !== 0) {
       // `?`: a response not measured yet (the general path's `readValue`).
       (reader.pending[column] ??= new Uint8Array(reader.rowCount))[row] = 1;
-      const rows = reader.pendingRows;
-      if (rows.length === 0 || rows[rows.length - 1] !== row) rows.push(row);
       const base = reader.base;
-      reader.pendingCells.push(row, column, base + i, base + i + 1, idStart < 0 ? -1 : base + idStart, idStart < 0 ? -1 : base + idEnd);
+      const hasId = idStart >= 0;
+      reader.pendingCells.push(row, column, base + i, base + i + 1, hasId ? base + idStart : -1, hasId ? base + idEnd : -1);
       i++;
     } else if (what === PlainColumn.Value || what === PlainColumn.Response) {
       // A plain decimal, stored as `storePlainDecimal` (center-decimals.ts) stores it: an optional sign,
@@ -259,8 +246,8 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
       // ones are divided out below), which is exact while the integer stays below 10^15; a longer one is
       // declined (the general path reads it), so at most 15 significant digits are kept, as there.
       let negative = false;
-      if (c === PLUS || c === MINUS) {
-        negative = c === MINUS;
+      if (c === Char.Plus || c === Char.Minus) {
+        negative = c === Char.Minus;
         c = bytes[++i]!;
       }
       let mantissa = 0;
@@ -271,7 +258,7 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
         if (digit >= 0 && digit <= 9) {
           mantissa = mantissa * 10 + digit;
           digits++;
-        } else if (c === POINT && pointAt < 0) pointAt = digits;
+        } else if (c === Char.Point && pointAt < 0) pointAt = digits;
         else break;
         c = bytes[++i]!;
       }
@@ -344,15 +331,15 @@ export function readPlainRuns(source: string, start: number, end: number, rowCou
     let i = p - base;
     // Line breaks and blanks before a row (the sentinel stops this at the chunk's end).
     let c = bytes[i]!;
-    while ((c === LF || c === CR || c === SPACE || c === TAB) && i < last) c = bytes[++i]!;
+    while ((c === Char.LF || c === Char.CR || c === Char.Space || c === Char.Tab) && i < last) c = bytes[++i]!;
     if (i >= last) {
       if (!cut) break;
       p = window.limit;
       if (!window.load(p)) return undefined;
       continue;
     }
-    if (c === HASH) {
-      while ((c = bytes[i]!) !== LF && c !== CR) i++;
+    if (c === Char.Hash) {
+      while ((c = bytes[i]!) !== Char.LF && c !== Char.CR) i++;
     } else {
       if (reader.row === rowCount) return undefined;
       reader.base = base;
@@ -365,5 +352,5 @@ export function readPlainRuns(source: string, start: number, end: number, rowCou
   }
   if (reader.row !== rowCount) return undefined;
   const values = reader.mantissas.map((mantissa, column) => ({ mantissa, exponent: reader.exponents[column]! }));
-  return { levels: reader.levels, values, pending: reader.pending, pendingRows: reader.pendingRows, pendingCells: reader.pendingCells };
+  return { levels: reader.levels, values, pending: reader.pending, pendingCells: reader.pendingCells };
 }

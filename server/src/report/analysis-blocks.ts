@@ -1,5 +1,5 @@
 import type { ResponseAnalysis } from "../analysis/results.js";
-import { comparisonPFloor } from "../stats/comparisons/p-floors.js";
+import { comparisonPFloor } from "../stats/distributions/p-floors.js";
 import { formatF, formatNumber, formatP, formatPAtFloor } from "../text/format-number.js";
 import type { ReportBlock } from "./blocks.js";
 

@@ -5,7 +5,7 @@
 
 import type { ResponseAnalysis } from "../analysis/results.js";
 import { alignColumns } from "./align-columns.js";
-import { comparisonPFloor } from "../stats/comparisons/p-floors.js";
+import { comparisonPFloor } from "../stats/distributions/p-floors.js";
 import { formatF, formatNumber, formatP, formatPAtFloor } from "./format-number.js";
 
 /** The lines (indented by two spaces) describing a response's comparisons, checks, alternatives and power. */

@@ -17,7 +17,7 @@
 
 import { dunnettTwoSidedCdf, dunnettTwoSidedQuantile } from "../distributions/dunnett.js";
 import { STUDENTIZED_RANGE_MAX_MEANS, studentizedRangeQuantile, studentizedRangeUpperTail } from "../distributions/studentized-range.js";
-import { DUNNETT_P_FLOOR } from "./p-floors.js";
+import { DUNNETT_P_FLOOR } from "../distributions/p-floors.js";
 import { tQuantile, tTwoSidedP } from "../distributions/t-distribution.js";
 import type { GroupSummary } from "./group-summary.js";
 import { bonferroniAdjust, holmAdjust } from "./p-adjust.js";

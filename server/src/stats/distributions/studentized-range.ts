@@ -36,7 +36,7 @@ import { solveIncreasing } from "./monotone-root.js";
 import { interpolateStep, stepTable, type StepTable, type ValueAndSlope } from "./step-table.js";
 import { normalDensity, normalQuantile, normalUpperTail } from "./normal-distribution.js";
 import { tQuantile } from "./t-distribution.js";
-import { STUDENTIZED_RANGE_P_FLOOR } from "../comparisons/p-floors.js";
+import { STUDENTIZED_RANGE_P_FLOOR } from "./p-floors.js";
 
 /** The smallest upper-tail probability reported (the CDF is accurate to about 1e-12 absolute). */
 export { STUDENTIZED_RANGE_P_FLOOR };
