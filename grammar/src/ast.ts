@@ -209,6 +209,12 @@ export interface RunsTable {
    * `excluded`, every row's `|` agreeing with the header's. Such a body has no syntax problem.
    */
   readonly plainBody?: Span;
+  /**
+   * For a plain body with rows on both sides of its middle: the first row starting at or after the
+   * middle (its index, and the offset of its line's start), where a reader may split the body in two
+   * parts of about the same size (the CLI reads a large table on two threads).
+   */
+  readonly plainMiddle?: { readonly row: number; readonly offset: number };
 }
 
 /** A problem found while reading the text: always code `syntax`, with a message that says how to fix it. */

@@ -448,6 +448,7 @@ function runsTable(b: Builder, node: RunsTableCstNode): RunsTable | undefined {
         },
         rowCount: payload.rowCount,
         plainBody: { start: bodyStart, end: bodyEnd },
+        ...(payload.middleRow > 0 ? { plainMiddle: { row: payload.middleRow, offset: payload.middleOffset } } : {}),
       };
     }
   }

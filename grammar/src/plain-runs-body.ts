@@ -29,6 +29,13 @@ export interface PlainRunsBody {
   readonly rowsWithPipe: number;
   /** Where the last row's content ends (its `RunRows.rowEnd`), or -1 without rows. */
   readonly lastRowEnd: number;
+  /**
+   * The first row that starts at or after the middle of the text from the body's start to `limit`: its
+   * index and the start of its line, where a reader may split the body in two parts of about the same
+   * size (the CLI reads a large table on two threads). -1 and -1 when no row starts there.
+   */
+  readonly middleRow: number;
+  readonly middleOffset: number;
 }
 
 
@@ -65,6 +72,9 @@ export function scanPlainRunsBody(source: string, start: number, limit: number =
   let rowsWithPipe = 0;
   let lastRowEnd = -1;
   let bodyEnd = end;
+  const middle = start + Math.floor((end - start) / 2);
+  let middleRow = -1;
+  let middleOffset = -1;
   while (lf < end) {
     const lineStart = lf + 1;
     const lineEnd = Math.min(found(source.indexOf("\n", lineStart)), end);
@@ -94,6 +104,10 @@ export function scanPlainRunsBody(source: string, start: number, limit: number =
         if (++pipes > 1) return undefined;
         nextPipe = found(source.indexOf("|", nextPipe + 1));
       }
+      if (middleRow < 0 && lineStart >= middle) {
+        middleRow = rowCount;
+        middleOffset = lineStart;
+      }
       rowCount++;
       if (pipes > 0) rowsWithPipe++;
       let e = contentEnd;
@@ -106,5 +120,5 @@ export function scanPlainRunsBody(source: string, start: number, limit: number =
     while (nextExcluded < lineEnd) nextExcluded = found(source.indexOf("excluded", nextExcluded + 1));
     lf = lineEnd;
   }
-  return { end: bodyEnd, rowCount, rowsWithPipe, lastRowEnd };
+  return { end: bodyEnd, rowCount, rowsWithPipe, lastRowEnd, middleRow, middleOffset };
 }

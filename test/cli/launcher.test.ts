@@ -60,4 +60,31 @@ describe("cli: the bin's launcher and its code cache (dist/cli.cjs)", function (
     assert.equal(report.status, 0, report.stderr);
     assert.ok(readFileSync(html, "utf8").includes("<svg"), "the report has its plots");
   });
+
+  it("reads a large file's table on two threads (dist/plain-read-worker.cjs) with the same output as on one", () => {
+    // About 5 MB of invented runs (a formula, not measurements), with pending values and comments.
+    const rows: string[] = [];
+    for (let i = 0; i < 200_000; i++) {
+      const y = i % 9973 === 17 ? "?" : (20 + (i % 4) * 0.3 + ((i * 7919) % 97) / 100).toFixed(2);
+      rows.push(`  r${i + 1} a${(i % 4) + 1} b${((i >> 2) % 3) + 1} | ${y}${i % 50_000 === 3 ? " # re-measured" : ""}\n`);
+    }
+    const large = join(copy, "large.trial");
+    writeFileSync(large, `# Invented benchmark-like file.\nresponse y unit mm\nfactor a levels a1, a2, a3, a4\nfactor b levels b1, b2, b3\nruns id a b | y\n${rows.join("")}`);
+    const debug = { TRIALBOOK_DEBUG_READ_THREAD: "1" };
+    const run = (launcher: string, verb: string) => {
+      const out = spawnSync(process.execPath, [launcher, verb, ...(verb === "analyze" ? ["--format", "json"] : []), large], { encoding: "utf8", env: { ...process.env, ...debug }, maxBuffer: 1 << 28 });
+      return { status: out.status, stdout: out.stdout, stderr: out.stderr };
+    };
+    for (const verb of ["analyze", "check"]) {
+      const two = run("dist/cli.cjs", verb);
+      // The copy has no worker bundle beside it: the same CLI on one thread.
+      const one = run(join(copy, "cli.cjs"), verb);
+      assert.match(two.stderr, /^reading thread: 1 of 1 parts read$/m, verb);
+      assert.match(one.stderr, /^reading thread: not started$/m, verb);
+      assert.equal(two.status, one.status, verb);
+      assert.equal(two.stdout, one.stdout, verb);
+    }
+    const analysis = JSON.parse(run("dist/cli.cjs", "analyze").stdout) as { responses: { n: number }[] };
+    assert.equal(analysis.responses[0]!.n, 200_000 - 21);
+  });
 });

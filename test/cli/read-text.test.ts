@@ -10,7 +10,9 @@ import { readFile } from "node:fs/promises";
 import os from "node:os";
 import path from "node:path";
 import fc from "fast-check";
-import { decodeText, readTextFile } from "../../server/src/cli/read-text.js";
+import { fileURLToPath } from "node:url";
+import { PLAIN_READ_THREAD_FROM_BYTES } from "../../server/src/cli/plain-read-thread.js";
+import { decodeText, readTextFile, readTrialForAnalysis } from "../../server/src/cli/read-text.js";
 
 
 describe("readTextFile", () => {
@@ -89,5 +91,45 @@ describe("decodeText", () => {
       }),
       { numRuns: 300, seed: 20261202 },
     );
+  });
+});
+
+describe("readTrialForAnalysis", () => {
+  let dir: string;
+  before(() => {
+    dir = fs.mkdtempSync(path.join(os.tmpdir(), "trialbook-read-trial-"));
+  });
+  after(() => {
+    fs.rmSync(dir, { recursive: true, force: true });
+  });
+
+  it("starts the reading thread only for a large all-ASCII file with the worker's script, and reads the same text", async () => {
+    const script = fileURLToPath(new URL("../../server/src/cli/plain-read-worker.js", import.meta.url));
+    const row = "  r1 a1 | 1.5\n";
+    const large = "runs id a | y\n" + row.repeat(Math.ceil(PLAIN_READ_THREAD_FROM_BYTES / row.length));
+    const cases = [
+      { name: "large.trial", text: large, thread: true },
+      { name: "large-not-ascii.trial", text: "# \u00b5m\n" + large, thread: false },
+      { name: "small.trial", text: large.slice(0, 1000), thread: false },
+    ];
+    for (const { name, text, thread } of cases) {
+      const file = path.join(dir, name);
+      fs.writeFileSync(file, text, "utf8");
+      const reference = await readFile(file, "utf8");
+      const read = await readTrialForAnalysis(file, script);
+      try {
+        assert.equal(read.text, reference, name);
+        assert.equal(read.helper !== undefined, thread, name);
+      } finally {
+        read.helper?.close();
+      }
+      const alone = await readTrialForAnalysis(file, undefined);
+      assert.equal(alone.text, reference);
+      assert.equal(alone.helper, undefined, "no script, no thread");
+    }
+    // A missing script: no thread, the same text.
+    const missing = await readTrialForAnalysis(path.join(dir, "large.trial"), path.join(dir, "no-such-worker.cjs"));
+    assert.equal(missing.helper, undefined);
+    assert.equal(missing.text.length, large.length);
   });
 });

@@ -2,6 +2,7 @@ import type { Span, TrialFile } from "../../../grammar/src/ast.js";
 import { parseTrial } from "../../../grammar/src/parse.js";
 import { analyzeResponse, extendResult, type ResponseContext, withResult } from "./analyze-response.js";
 import { type AnalysisSettings, buildDesign } from "./build-design.js";
+import type { EngineOptions } from "./engine-options.js";
 import { checkSystematicOrder } from "./checks/systematic-order.js";
 import { type Diagnostic, type DiagnosticCode, diagnostic } from "./diagnostics.js";
 import type { DocumentAnalysis, ResponseAnalysis } from "./results.js";
@@ -40,15 +41,16 @@ const RESPONSE_EXTENSIONS: readonly ResponseExtension[] = [
 /**
  * The engine's single entry point: parse, build the design, analyse every response.
  * `defaults` are editor settings (the file wins over them); `overrides` are CLI flags (they win over the
- * file). Never throws for any text.
+ * file). `engine` says how the work may be done (another thread for a large table), never what it gives.
+ * Never throws for any text.
  */
-export function analyzeDocument(text: string, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}): DocumentAnalysis {
-  return analyzeParsed(parseTrial(text), defaults, overrides);
+export function analyzeDocument(text: string, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}, engine: EngineOptions = {}): DocumentAnalysis {
+  return analyzeParsed(parseTrial(text), defaults, overrides, engine);
 }
 
 /** As `analyzeDocument`, for a file already parsed. */
-export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}): DocumentAnalysis {
-  const { design, diagnostics: structural } = buildDesign(file, defaults, overrides);
+export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}, engine: EngineOptions = {}): DocumentAnalysis {
+  const { design, diagnostics: structural } = buildDesign(file, defaults, overrides, engine);
   const diagnostics: Diagnostic[] = [...structural];
   diagnostics.push(...checkSystematicOrder(file, design));
   const responses: ResponseAnalysis[] = [];

@@ -20,7 +20,8 @@ import { definingRelation } from "../stats/two-level/aliases.js";
 import { wordOf } from "../stats/two-level/words.js";
 import { type Diagnostic, DiagnosticSink, diagnostic } from "./diagnostics.js";
 import { resolvePairwise } from "./resolve-pairwise.js";
-import { PlainColumn, type PlainRunsLayout, readPlainRuns } from "./read-plain-runs.js";
+import { PlainColumn, type PlainRunsLayout, type PlainSplit, readPlainRuns } from "./read-plain-runs.js";
+import type { EngineOptions } from "./engine-options.js";
 
 /** Analysis settings that can come from outside the file: editor settings (defaults) or CLI flags (overrides). */
 export interface AnalysisSettings {
@@ -44,7 +45,7 @@ export interface BuiltDesign {
  * Precedence of settings (design brief §3): `overrides` (a CLI flag) beat what the file says, which beats
  * `defaults` (editor settings), which beat `DEFAULT_SETTINGS`.
  */
-export function buildDesign(file: TrialFile, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}): BuiltDesign {
+export function buildDesign(file: TrialFile, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}, engine: EngineOptions = {}): BuiltDesign {
   const sink = new DiagnosticSink();
   for (const p of file.problems) sink.add(diagnostic("syntax", p.span, p.message));
   reportUnderflow(file, sink);
@@ -53,7 +54,7 @@ export function buildDesign(file: TrialFile, defaults: AnalysisSettings = {}, ov
   const covariates = resolveCovariates(file, factors, sink);
   const responses = resolveResponses(file, factors, covariates, sink);
   const settings = resolveSettings(file.plan?.settings ?? [], defaults, overrides, sink);
-  const runs = readRuns(file, factors, covariates, responses, sink);
+  const runs = readRuns(file, factors, covariates, responses, sink, engine);
   const fractions = resolveFractions(file, factors, sink);
   const { terms, explicit } = resolveTerms(file, factors, covariates, sink, { runs, fractions });
   const centrePoints = (file.plan?.settings ?? []).find((s) => s.kind === "centre-points");
@@ -552,6 +553,7 @@ function readRuns(
   covariates: readonly DesignCovariate[],
   responses: readonly DesignResponse[],
   sink: DiagnosticSink,
+  engine: EngineOptions,
 ): DesignRuns {
   const table = file.runs;
   const count = table?.rowCount ?? 0;
@@ -559,7 +561,9 @@ function readRuns(
   // A plain body (the usual large run sheet) is read in one pass straight into these columns when every
   // row is regular (read-plain-runs.ts); otherwise, or when that reader declines, the general path below.
   if (table?.plainBody) {
-    const plain = readPlainTable(file.source, table, table.plainBody, roles, factors, covariates, responses, sink);
+    const helper = engine.plainPartHelper;
+    const split = helper && table.plainMiddle ? { ...table.plainMiddle, helper } : undefined;
+    const plain = readPlainTable(file.source, table, table.plainBody, roles, factors, covariates, responses, sink, split);
     if (plain) return plain;
   }
   const levels = factors.map(() => new Int32Array(count).fill(-1));
@@ -801,6 +805,7 @@ function readPlainTable(
   covariates: readonly DesignCovariate[],
   responses: readonly DesignResponse[],
   sink: DiagnosticSink,
+  split: PlainSplit | undefined,
 ): DesignRuns | undefined {
   const count = table.rowCount;
   const layout: PlainRunsLayout = {
@@ -818,7 +823,7 @@ function readPlainTable(
     levelNames: roles.map((role) => (role.kind === "factor" ? factors[role.index]!.levels.map((l) => l.name) : [])),
     pipeAt: table.headerHasPipe ? table.responseStart : -1,
   };
-  const read = readPlainRuns(source, body.start, body.end, count, layout);
+  const read = readPlainRuns(source, body.start, body.end, count, layout, split);
   if (!read) return undefined;
   const columns = roles.length;
   const cellsOf = (column: number): Int32Array => {

@@ -78,6 +78,17 @@ const ENDS_CELL: Uint8Array = (() => {
 })();
 
 /**
+ * Fills `into[0, to - from)` with the characters at offsets `[from, to)` as bytes and returns true when
+ * every one is ASCII (then byte `i` is the character at `from + i`); false otherwise.
+ */
+export type AsciiChunkLoader = (from: number, to: number, into: Uint8Array) => boolean;
+
+/** The loader of a string: `encodeInto` a chunk at a time. */
+export function stringChunks(source: string): AsciiChunkLoader {
+  return (from, to, into) => encodeAsciiChunk(source, from, to, into);
+}
+
+/**
  * The text as ASCII bytes, a chunk at a time: `bytes[i - base]` is the character at offset `i` for
  * `base <= i < limit`, and `bytes[limit - base]` is a line feed put there as a sentinel, so that the
  * loops below stop at the chunk's end without testing for it. `load` returns false for a chunk that is
@@ -89,13 +100,13 @@ class AsciiWindow {
   readonly bytes = new Uint8Array(CHUNK + 1);
 
   constructor(
-    private readonly source: string,
+    private readonly loader: AsciiChunkLoader,
     private readonly end: number,
   ) {}
 
   load(p: number): boolean {
     const limit = Math.min(this.end, p + CHUNK);
-    const ascii = encodeAsciiChunk(this.source, p, limit, this.bytes);
+    const ascii = this.loader(p, limit, this.bytes);
     this.base = p;
     this.limit = limit;
     this.bytes[limit - p] = Char.LF;
@@ -162,6 +173,72 @@ function levelOf(levels: ByteLevels, bytes: Uint8Array, s: number, e: number): n
   return -1;
 }
 
+/** The columns a reader fills, each for every row of the table (empty for a column of another kind). */
+export interface PlainColumns {
+  readonly rowCount: number;
+  /** Per header column that is a factor: its level index per run. */
+  readonly levels: readonly Int32Array[];
+  /** Per header column that is a value: its decimals' mantissas and exponents (`DecimalColumn`). */
+  readonly mantissas: readonly Float64Array[];
+  readonly exponents: readonly Int8Array[];
+}
+
+/**
+ * Columns for `rowCount` rows of a table with columns of `kinds`, in memory from `allocate` (another
+ * thread's reader needs shared memory).
+ */
+export function plainColumns(kinds: readonly PlainColumn[], rowCount: number, allocate: (bytes: number) => ArrayBufferLike = (bytes) => new ArrayBuffer(bytes)): PlainColumns {
+  return {
+    rowCount,
+    levels: kinds.map((kind) => new Int32Array(allocate(kind === PlainColumn.Factor ? rowCount * 4 : 0))),
+    mantissas: kinds.map((kind) => new Float64Array(allocate(isValue(kind) ? rowCount * 8 : 0))),
+    exponents: kinds.map((kind) => new Int8Array(allocate(isValue(kind) ? rowCount : 0))),
+  };
+}
+
+/** What reading a part of a body found besides the values it wrote into the columns. */
+export interface PlainPart {
+  /** Per header column: 1 at each row of the part whose response is pending (`?`); undefined without any. */
+  readonly pending: readonly (Uint8Array | undefined)[];
+  /** The part's pending cells, as `PlainRuns.pendingCells`. */
+  readonly pendingCells: readonly number[];
+  /** The trailing numbers of the part's first and last ids; -1 without an id column. */
+  readonly firstId: number;
+  readonly lastId: number;
+}
+
+/** Reading rows `[firstRow, endRow)` of a table from the text `[from, to)` into `columns`. */
+export interface PlainPartJob {
+  readonly from: number;
+  readonly to: number;
+  readonly firstRow: number;
+  readonly endRow: number;
+  readonly layout: PlainRunsLayout;
+  readonly columns: PlainColumns;
+}
+
+/**
+ * Another thread that can read a later part of a large plain body while this one reads the first (the
+ * CLI's worker, `server/src/cli/plain-read-worker.ts`). Its text must be the same characters at the same
+ * offsets.
+ */
+export interface PlainPartHelper {
+  /** Columns the helper can write into (shared memory), or undefined when it cannot help. */
+  columns(kinds: readonly PlainColumn[], rowCount: number): PlainColumns | undefined;
+  /**
+   * Starts reading `job` on the other thread; returns the function that waits for it and gives its part,
+   * or undefined when that part was declined or the helper failed. Undefined when it cannot start.
+   */
+  start(job: PlainPartJob): (() => PlainPart | undefined) | undefined;
+}
+
+/** Where a body may be split: a row's index and its line's start (`RunsTable.plainMiddle`). */
+export interface PlainSplit {
+  readonly row: number;
+  readonly offset: number;
+  readonly helper: PlainPartHelper;
+}
+
 /**
  * The columns being filled and the reader's state: one object of one shape, so that `readRow` is a small
  * function called once per row, which the engine optimises as an ordinary function after a few hundred
@@ -172,29 +249,31 @@ class PlainReader {
   readonly kindOf: Int8Array;
   readonly pipeAt: number;
   readonly lookups: readonly ByteLevels[];
-  readonly levels: Int32Array[];
-  readonly mantissas: Float64Array[];
-  readonly exponents: Int8Array[];
-  /** Made when a column's first `?` is read. */
+  readonly levels: readonly Int32Array[];
+  readonly mantissas: readonly Float64Array[];
+  readonly exponents: readonly Int8Array[];
+  /** Made when a column's first `?` is read, for every row of the table. */
   readonly pending: (Uint8Array | undefined)[];
   readonly pendingCells: number[] = [];
+  /** Rows of the whole table (the length of the columns). */
   readonly rowCount: number;
   /** The offset of `bytes[0]` in the source (the chunk's start). */
   base = 0;
-  row = 0;
+  row: number;
   previousId = -1;
 
-  constructor(layout: PlainRunsLayout, rowCount: number) {
+  constructor(layout: PlainRunsLayout, columns: PlainColumns, firstRow: number) {
     const kinds = layout.kinds;
     this.columnCount = kinds.length;
     this.kindOf = Int8Array.from(kinds);
     this.pipeAt = layout.pipeAt;
     this.lookups = layout.levelNames.map((names, column) => (kinds[column] === PlainColumn.Factor ? byteLevels(names) : NO_LEVELS));
-    this.levels = kinds.map((kind) => new Int32Array(kind === PlainColumn.Factor ? rowCount : 0));
-    this.mantissas = kinds.map((kind) => new Float64Array(isValue(kind) ? rowCount : 0));
-    this.exponents = kinds.map((kind) => new Int8Array(isValue(kind) ? rowCount : 0));
+    this.levels = columns.levels;
+    this.mantissas = columns.mantissas;
+    this.exponents = columns.exponents;
     this.pending = kinds.map(() => undefined);
-    this.rowCount = rowCount;
+    this.rowCount = columns.rowCount;
+    this.row = firstRow;
   }
 }
 
@@ -310,24 +389,27 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
 }
 
 /**
- * Reads the `rowCount` rows of the plain body `source[start, end)` with `layout`, or returns `undefined`
- * when any row is outside what this reader handles (see the module comment). The cell parsers do not test
- * for the chunk's end: a row is started only with `LONGEST_ROW` characters left in the chunk, and a row
- * that reaches the sentinel anyway is too long and declined.
+ * Reads rows `[firstRow, endRow)` from the plain text `[from, to)` (a row starts at or after `from`) into
+ * `columns`, or returns `undefined` when any row is outside what this reader handles (see the module
+ * comment) or the rows are not exactly that many. The cell parsers do not test for the chunk's end: a row
+ * is started only with `LONGEST_ROW` characters left in the chunk, and a row that reaches the sentinel
+ * anyway is too long and declined.
  */
-export function readPlainRuns(source: string, start: number, end: number, rowCount: number, layout: PlainRunsLayout): PlainRuns | undefined {
-  if (layout.kinds.length === 0) return undefined;
-  const reader = new PlainReader(layout, rowCount);
-  const window = new AsciiWindow(source, end);
+export function readPlainPart(load: AsciiChunkLoader, job: PlainPartJob): PlainPart | undefined {
+  const { from, to, firstRow, endRow } = job;
+  if (job.layout.kinds.length === 0) return undefined;
+  const reader = new PlainReader(job.layout, job.columns, firstRow);
+  const window = new AsciiWindow(load, to);
   const bytes = window.bytes;
-  let p = start;
-  if (p < end && !window.load(p)) return undefined;
-  while (p < end) {
+  let firstId = -1;
+  let p = from;
+  if (p < to && !window.load(p)) return undefined;
+  while (p < to) {
     // A row must fit in the window: move it on when less than the longest row read here is left.
-    if (window.limit < end && window.limit - p < LONGEST_ROW && !window.load(p)) return undefined;
+    if (window.limit < to && window.limit - p < LONGEST_ROW && !window.load(p)) return undefined;
     const base = window.base;
     const last = window.limit - base;
-    const cut = window.limit < end;
+    const cut = window.limit < to;
     let i = p - base;
     // Line breaks and blanks before a row (the sentinel stops this at the chunk's end).
     let c = bytes[i]!;
@@ -341,16 +423,55 @@ export function readPlainRuns(source: string, start: number, end: number, rowCou
     if (c === Char.Hash) {
       while ((c = bytes[i]!) !== Char.LF && c !== Char.CR) i++;
     } else {
-      if (reader.row === rowCount) return undefined;
+      if (reader.row === endRow) return undefined;
       reader.base = base;
       i = readRow(reader, bytes, i);
       if (i < 0) return undefined;
+      if (reader.row === firstRow) firstId = reader.previousId;
       reader.row++;
     }
     if (i >= last && cut) return undefined; // a line longer than LONGEST_ROW
     p = i + base;
   }
-  if (reader.row !== rowCount) return undefined;
-  const values = reader.mantissas.map((mantissa, column) => ({ mantissa, exponent: reader.exponents[column]! }));
-  return { levels: reader.levels, values, pending: reader.pending, pendingCells: reader.pendingCells };
+  if (reader.row !== endRow) return undefined;
+  return { pending: reader.pending, pendingCells: reader.pendingCells, firstId, lastId: reader.previousId };
+}
+
+/**
+ * Reads the `rowCount` rows of the plain body `source[start, end)` with `layout`, or returns `undefined`
+ * when any row is outside what this reader handles. With `split`, the rows from `split.row` on are read
+ * by its helper on another thread meanwhile; the result is the same (tested), and any failure of the
+ * helper's part makes the whole read decline, as a declined row does.
+ */
+export function readPlainRuns(source: string, start: number, end: number, rowCount: number, layout: PlainRunsLayout, split?: PlainSplit): PlainRuns | undefined {
+  if (layout.kinds.length === 0) return undefined;
+  const load = stringChunks(source);
+  const helped = split !== undefined && split.row > 0 && split.row < rowCount ? split : undefined;
+  const shared = helped?.helper.columns(layout.kinds, rowCount);
+  const columns = shared ?? plainColumns(layout.kinds, rowCount);
+  const wait = helped && shared ? helped.helper.start({ from: helped.offset, to: end, firstRow: helped.row, endRow: rowCount, layout, columns }) : undefined;
+  let parts: (PlainPart | undefined)[];
+  if (wait && helped) {
+    const first = readPlainPart(load, { from: start, to: helped.offset, firstRow: 0, endRow: helped.row, layout, columns });
+    // Always waited for, also after a decline: the helper writes into these columns until it is done.
+    const second = wait();
+    parts = [first, second];
+    // Ids must increase across the split too (each part checked its own).
+    if (first && second && second.firstId >= 0 && second.firstId <= first.lastId) return undefined;
+  } else {
+    parts = [readPlainPart(load, { from: start, to: end, firstRow: 0, endRow: rowCount, layout, columns })];
+  }
+  if (parts.some((part) => part === undefined)) return undefined;
+  const done = parts as PlainPart[];
+  const pending = layout.kinds.map((_, column) => {
+    const marks = done.map((part) => part.pending[column]).filter((m): m is Uint8Array => m !== undefined);
+    if (marks.length <= 1) return marks[0];
+    // Each part marked only its own rows, in an array for every row: combined by "or".
+    const all = marks[0]!;
+    for (const more of marks.slice(1)) for (let r = 0; r < rowCount; r++) all[r] |= more[r]!;
+    return all;
+  });
+  const pendingCells = done.length === 1 ? done[0]!.pendingCells : done.flatMap((part) => part.pendingCells);
+  const values = columns.mantissas.map((mantissa, column) => ({ mantissa, exponent: columns.exponents[column]! }));
+  return { levels: columns.levels, values, pending, pendingCells };
 }

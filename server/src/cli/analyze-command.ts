@@ -12,7 +12,8 @@ import { VERSION } from "../version.js";
 import { choice, parseArguments, probability } from "./arguments.js";
 import { locateDiagnostics } from "./check-command.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
-import { readTrialFile } from "./read-text.js";
+import { reportReadThread } from "./plain-read-thread.js";
+import { readTrialForAnalysis } from "./read-text.js";
 
 export const ANALYZE_USAGE = `Usage: trialbook analyze FILE... [--format text|json] [--ss-type I|II|III] [--alpha A] [--confidence C]
   Prints the ANOVA table, R², residual SD and means of every response (JSON: one file at a time).
@@ -34,10 +35,17 @@ export async function analyzeCommand(args: readonly string[], io: CliIo): Promis
   const confidence = probability(values.confidence, "confidence");
   let exit = EXIT_OK;
   for (const path of positionals) {
-    const text = await readTrialFile(resolve(io.cwd, path)).catch(() => {
+    const { text, helper } = await readTrialForAnalysis(resolve(io.cwd, path), io.plainReadWorker).catch(() => {
       throw new UsageError(`Cannot read '${path}'.`);
     });
-    const analysis = analyzeDocument(text, {}, { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) });
+    const overrides = { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) };
+    let analysis: DocumentAnalysis;
+    try {
+      analysis = analyzeDocument(text, {}, overrides, helper ? { plainPartHelper: helper } : {});
+    } finally {
+      helper?.close();
+    }
+    reportReadThread(io.env, io.stderr, helper);
     const diagnostics = locateDiagnostics(text, analysis.diagnostics);
     io.stdout(format === "json" ? JSON.stringify(analysisJson(path, analysis, diagnostics), null, 2) + "\n" : analysisText(path, analysis, diagnostics));
     if (diagnostics.some((d) => d.severity === "error")) exit = EXIT_PROBLEMS;

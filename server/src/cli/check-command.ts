@@ -8,7 +8,8 @@ import { locateOffsets } from "./locate-offsets.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 import { type SarifDiagnostic, type SarifRegion, sarifLog } from "./sarif.js";
 import { createProgress, severityStyle, terminalStyle } from "./terminal-style.js";
-import { readTrialFile } from "./read-text.js";
+import { reportReadThread } from "./plain-read-thread.js";
+import { readTrialForAnalysis, type TrialText } from "./read-text.js";
 
 export const CHECK_USAGE = `Usage: trialbook check [paths...] [--format text|json|sarif] [--max-warnings N]
   Checks .trial files. Directories are searched recursively (default: the current directory), skipping
@@ -74,15 +75,22 @@ export async function checkCommand(args: readonly string[], io: CliIo): Promise<
   const report: { file: string; diagnostics: LocatedDiagnostic[] }[] = [];
   const sarif: SarifDiagnostic[] = [];
   for (const file of files) {
-    let text: string;
+    let read: TrialText;
     try {
-      text = await readTrialFile(resolve(io.cwd, file));
+      read = await readTrialForAnalysis(resolve(io.cwd, file), io.plainReadWorker);
     } catch {
       throw new UsageError(`Cannot read '${file}'.`);
     }
+    const { text, helper } = read;
     const progress = createProgress(io, text.length);
     progress.update(`Checking ${file} (${Math.round(text.length / 1e6)} MB)...`);
-    const diagnostics = analyzeDocument(text).diagnostics;
+    let diagnostics: readonly Diagnostic[];
+    try {
+      diagnostics = analyzeDocument(text, {}, {}, helper ? { plainPartHelper: helper } : {}).diagnostics;
+    } finally {
+      helper?.close();
+    }
+    reportReadThread(io.env, io.stderr, helper);
     progress.done();
     const located = locateDiagnostics(text, diagnostics);
     for (const d of located) counts[d.severity]++;

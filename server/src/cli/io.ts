@@ -11,6 +11,11 @@ export interface CliIo {
   readonly env: Readonly<Record<string, string | undefined>>;
   /** True when stdout is an interactive terminal (colour and progress are allowed). */
   readonly isTty: boolean;
+  /**
+   * The reading thread's script (dist/plain-read-worker.cjs beside the bundled CLI): with it, `analyze`
+   * and `check` read a large runs table on two threads (plain-read-thread.ts). Without it, on one.
+   */
+  readonly plainReadWorker?: string;
 }
 
 /** Exit codes, documented in the README: 0 clean, 1 problems found, 2 usage error. */

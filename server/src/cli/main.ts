@@ -1,4 +1,5 @@
 // The CLI's process entry: the only place that reads process.argv and calls process.exit.
+import { join } from "node:path";
 import { runCli } from "./run-cli.js";
 
 async function readStdin(): Promise<string> {
@@ -14,6 +15,8 @@ void runCli(process.argv.slice(2), {
   readStdin,
   env: process.env,
   isTty: process.stdout.isTTY === true,
+  // The bundle's own directory (dist/): the reading thread's bundle is built beside it.
+  plainReadWorker: join(__dirname, "plain-read-worker.cjs"),
 }).then((code) => {
   process.exitCode = code;
   // Exit as soon as the output is flushed rather than when the event loop runs dry: at that point Node 20

@@ -14,10 +14,11 @@
 import { isAscii } from "node:buffer";
 import { open } from "node:fs/promises";
 import { prepareParsing } from "../../../grammar/src/parse.js";
+import { PLAIN_READ_THREAD_FROM_BYTES, PlainReadThread } from "./plain-read-thread.js";
 
 /** The text of a file's bytes: a Latin-1 copy when all are ASCII, else UTF-8 decoding (`Buffer.toString`). */
-export function decodeText(bytes: Buffer): string {
-  return bytes.toString(isAscii(bytes) ? "latin1" : "utf8");
+export function decodeText(bytes: Buffer, ascii = isAscii(bytes)): string {
+  return bytes.toString(ascii ? "latin1" : "utf8");
 }
 
 /** Reads the file at `path` as text: the same string as `readFile(path, "utf8")`, flat. Rejects as it does. */
@@ -29,24 +30,63 @@ export async function readTextFile(path: string): Promise<string> {
  * `readTextFile` of a `.trial` file that is about to be parsed: the lexer and parser (tens of ms of
  * grammar analysis, once per process) are built while the bytes are read.
  */
-export function readTrialFile(path: string): Promise<string> {
-  const reading = readTextFile(path);
+export async function readTrialFile(path: string): Promise<string> {
+  return (await readTrialForAnalysis(path, undefined)).text;
+}
+
+/** A `.trial` file read for analysis: its text, and for a large file the thread that helps read it. */
+export interface TrialText {
+  readonly text: string;
+  /** Given to the engine (`EngineOptions.plainPartHelper`); `close` it when done. */
+  readonly helper?: PlainReadThread;
+}
+
+/**
+ * `readTrialFile`, and for a file of `PLAIN_READ_THREAD_FROM_BYTES` or more, with `workerScript`, its
+ * bytes are read into shared memory and the reading thread (plain-read-thread.ts) is started on them
+ * while they are read. The thread is kept only when every byte is ASCII, so that the text's offsets are
+ * the bytes' offsets (`decodeText` then copies them as Latin-1).
+ */
+export async function readTrialForAnalysis(path: string, workerScript: string | undefined): Promise<TrialText> {
+  let thread: PlainReadThread | undefined;
+  let shared: SharedArrayBuffer | undefined;
+  const allocate = (size: number): Buffer => {
+    if (workerScript === undefined || size < PLAIN_READ_THREAD_FROM_BYTES) return Buffer.allocUnsafe(size);
+    shared = new SharedArrayBuffer(size);
+    thread = PlainReadThread.start(workerScript, shared);
+    return Buffer.from(shared);
+  };
+  const reading = readBytes(path, allocate);
   prepareParsing();
-  return reading;
+  try {
+    const bytes = await reading;
+    const ascii = isAscii(bytes);
+    const text = decodeText(bytes, ascii);
+    // The thread reads the shared bytes: only useful when they are the whole file and the text's characters.
+    if (thread && !(ascii && bytes.buffer === shared && bytes.byteOffset === 0 && bytes.length === shared.byteLength)) {
+      thread.close();
+      thread = undefined;
+    }
+    return thread ? { text, helper: thread } : { text };
+  } catch (error) {
+    (thread as PlainReadThread | undefined)?.close();
+    throw error;
+  }
 }
 
 /**
  * The file's bytes, as `readFile(path)` gives them. A regular file is read with one read request for its
  * whole size: `readFile` reads in 512 KiB pieces, one thread-pool round trip each (about 90 ms for a
  * 22 MB file here), and the caller's work meanwhile (building the parser) finished long before. Anything
- * else (empty, a pipe, a file that grew) is read on to its end as `readFile` would.
+ * else (empty, a pipe, a file that grew) is read on to its end as `readFile` would. `allocate` gives the
+ * buffer for a regular file's size (shared memory for the reading thread).
  */
-async function readBytes(path: string): Promise<Buffer> {
+async function readBytes(path: string, allocate: (size: number) => Buffer = Buffer.allocUnsafe): Promise<Buffer> {
   const handle = await open(path, "r");
   try {
     const { size } = await handle.stat();
     if (size === 0) return await handle.readFile();
-    const bytes = Buffer.allocUnsafe(size);
+    const bytes = allocate(size);
     let filled = 0;
     while (filled < size) {
       const { bytesRead } = await handle.read(bytes, filled, size - filled, filled);

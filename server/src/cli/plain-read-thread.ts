@@ -1,0 +1,112 @@
+/**
+ * The CLI's second thread for large files: while the main thread reads the first half of a large plain
+ * runs table, a worker (plain-read-worker.ts) reads the second half from the file's bytes in shared memory
+ * into the same shared columns (`PlainPartHelper` in read-plain-runs.ts). The main thread then waits for
+ * it synchronously (`Atomics.wait`), so the engine stays a plain synchronous function.
+ *
+ * Why: reading the table is the largest single step of `trialbook analyze` on a million-run file (about
+ * 100 of 440 ms here, 2026-12-02), and a loop over the table's bytes was already near what one core does
+ * (docs/performance.md); a second core halves it. Only the CLI uses it: its file is read once and its
+ * bytes can be put in shared memory as they are read. The thread starts while the file is read and the
+ * parser is built, so its start-up (~20 ms of the other core) is paid before its work is asked for.
+ */
+import { existsSync } from "node:fs";
+import { MessageChannel, type MessagePort, receiveMessageOnPort, Worker } from "node:worker_threads";
+import { type PlainColumn, type PlainColumns, plainColumns, type PlainPart, type PlainPartHelper, type PlainPartJob } from "../analysis/read-plain-runs.js";
+import { type PlainReadAnswer, type PlainReadStart, Signal } from "./plain-read-protocol.js";
+
+/** Files from this size on get the thread: below it, a table reads in a few milliseconds. */
+export const PLAIN_READ_THREAD_FROM_BYTES = 4 * 1024 * 1024;
+/** A healthy worker runs within tens of milliseconds; one that has not after this long is not used. */
+const READY_TIMEOUT_MS = 5_000;
+/** The wait for an answer: generous (a part reads at about 0.1 µs a byte here), then the general path. */
+const ANSWER_TIMEOUT_MS = 30_000;
+
+export class PlainReadThread implements PlainPartHelper {
+  private sequence = 0;
+  private broken = false;
+  /** Parts asked for and parts the worker read (for `TRIALBOOK_DEBUG_READ_THREAD`). */
+  asked = 0;
+  read = 0;
+
+  private constructor(
+    private readonly worker: Worker,
+    private readonly port: MessagePort,
+    private readonly signal: Int32Array,
+  ) {}
+
+  /** Starts the worker `script` on `bytes`; undefined when it cannot be started (then nothing changes but speed). */
+  static start(script: string, bytes: SharedArrayBuffer): PlainReadThread | undefined {
+    if (!existsSync(script)) return undefined;
+    try {
+      const signal = new Int32Array(new SharedArrayBuffer(Signal.Length * 4));
+      const { port1, port2 } = new MessageChannel();
+      const start: PlainReadStart = { bytes, signal, port: port2 };
+      const worker = new Worker(script, { workerData: start, transferList: [port2] });
+      // It must not keep the process alive, and a failure of it only costs speed.
+      worker.unref();
+      const thread = new PlainReadThread(worker, port1, signal);
+      worker.on("error", () => {
+        thread.broken = true;
+      });
+      return thread;
+    } catch {
+      return undefined;
+    }
+  }
+
+  columns(kinds: readonly PlainColumn[], rowCount: number): PlainColumns | undefined {
+    return this.broken ? undefined : plainColumns(kinds, rowCount, (size) => new SharedArrayBuffer(size));
+  }
+
+  start(job: PlainPartJob): (() => PlainPart | undefined) | undefined {
+    if (this.broken) return undefined;
+    const sequence = ++this.sequence;
+    this.asked++;
+    this.port.postMessage({ sequence, job });
+    return () => this.answer(sequence);
+  }
+
+  /** Stops the worker (a command calls this when it is done with its files). */
+  close(): void {
+    void this.worker.terminate();
+  }
+
+  /**
+   * Waits for the answer to job `sequence`. A worker that never started or never answers makes its part
+   * declined (the whole table then takes the general path) and is not used again.
+   */
+  private answer(sequence: number): PlainPart | undefined {
+    if (Atomics.load(this.signal, Signal.Ready) !== 1) Atomics.wait(this.signal, Signal.Ready, 0, READY_TIMEOUT_MS);
+    if (Atomics.load(this.signal, Signal.Ready) !== 1) {
+      this.broken = true;
+      return undefined;
+    }
+    const deadline = Date.now() + ANSWER_TIMEOUT_MS;
+    for (;;) {
+      const received = receiveMessageOnPort(this.port);
+      if (received) {
+        const answer = received.message as PlainReadAnswer;
+        if (answer.sequence !== sequence) continue; // a late answer to a job given up on
+        if (answer.error !== undefined) this.broken = true;
+        if (answer.part) this.read++;
+        return answer.part;
+      }
+      const left = deadline - Date.now();
+      if (left <= 0 || this.broken) {
+        this.broken = true;
+        return undefined;
+      }
+      // The worker posts its answer before it writes the answer's number here: once the number is there, the
+      // answer is on the port; until then, sleep until the number changes.
+      const seen = Atomics.load(this.signal, Signal.Answered);
+      if (seen < sequence) Atomics.wait(this.signal, Signal.Answered, seen, left);
+    }
+  }
+}
+
+/** With `TRIALBOOK_DEBUG_READ_THREAD=1`: says on stderr whether a file's table was read on two threads. */
+export function reportReadThread(env: Readonly<Record<string, string | undefined>>, stderr: (text: string) => void, thread: PlainReadThread | undefined): void {
+  if (env.TRIALBOOK_DEBUG_READ_THREAD !== "1") return;
+  stderr(`reading thread: ${thread ? `${thread.read} of ${thread.asked} parts read` : "not started"}\n`);
+}
