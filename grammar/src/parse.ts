@@ -5,7 +5,14 @@ import type { SyntaxProblem, TrialFile } from "./ast.js";
 import type { TrialFileCstNode } from "./cst.generated.js";
 import { buildTrialFile, lexingProblems, parsingProblems } from "./cst-to-ast.js";
 import { trialParser } from "./parser.js";
+import { type QuickPassContinuation, withQuickPassContinuation } from "./plain-runs-body.js";
 import { trialLexer } from "./tokens.js";
+
+/** What may speed a parse up without changing its result. */
+export interface ParseHints {
+  /** The quick pass's facts for the text's second half, from another thread (plain-runs-body.ts). */
+  readonly continuation?: QuickPassContinuation;
+}
 
 /**
  * Parses a `.trial` text. Always returns a `TrialFile`; whatever could not be read is in `problems`
@@ -13,10 +20,10 @@ import { trialLexer } from "./tokens.js";
  * byte-order mark is kept in `source` and read as white space, CRLF and tabs are accepted everywhere.
  * One parser instance is reused across calls (the grammar is analysed once).
  */
-export function parseTrial(text: string): TrialFile {
+export function parseTrial(text: string, hints: ParseHints = {}): TrialFile {
   const source = typeof text === "string" ? text : String(text ?? "");
   try {
-    const lexed = trialLexer().tokenize(source);
+    const lexed = withQuickPassContinuation(hints.continuation, () => trialLexer().tokenize(source));
     const parser = trialParser();
     parser.setSource(source);
     parser.input = lexed.tokens;

@@ -39,6 +39,37 @@ export interface PlainRunsBody {
 }
 
 
+/**
+ * What another thread found from a line feed of the text on: `facts()` is what
+ * `scanPlainRunsBody(text.slice(at), 0, undefined, 0)` gives there (offsets from `at`; its middle row is
+ * the first row after `at`), waiting for it if need be, or `null` when it is not available (then the
+ * quick pass reads on by itself). The CLI's reading thread computes it while this thread lexes the first
+ * half of a large file (server/src/cli/plain-read-thread.ts).
+ */
+export interface QuickPassContinuation {
+  /** The offset of a line feed in the text. */
+  readonly at: number;
+  /** The length of the text it was computed for (a check that it is this text). */
+  readonly length: number;
+  facts(): PlainRunsBody | undefined | null;
+}
+
+/**
+ * The continuation of the text being parsed (set by `parseTrial` for one call). Module state because the
+ * lexer calls the body matcher with the text and an offset only (a Chevrotain custom token pattern).
+ */
+let continuation: QuickPassContinuation | undefined;
+
+/** Runs `parse` with `next` as the continuation of the quick passes it makes, and clears it after. */
+export function withQuickPassContinuation<T>(next: QuickPassContinuation | undefined, parse: () => T): T {
+  continuation = next;
+  try {
+    return parse();
+  } finally {
+    continuation = undefined;
+  }
+}
+
 /** An `indexOf` result as a position: "not found" is past every position. */
 function found(at: number): number {
   return at < 0 ? Number.MAX_SAFE_INTEGER : at;
@@ -55,7 +86,7 @@ function found(at: number): number {
  * each found the same way as the next one after the previous (a body with none costs one search). A line with a lone carriage
  * return (one not just before a line feed) makes the body not plain: the scanner splits rows there.
  */
-export function scanPlainRunsBody(source: string, start: number, limit: number = source.length): PlainRunsBody | undefined {
+export function scanPlainRunsBody(source: string, start: number, limit: number = source.length, middleAt?: number): PlainRunsBody | undefined {
   const end = Math.max(start, Math.min(limit, source.length));
   if (start >= end) return undefined;
   let lf = start;
@@ -72,10 +103,31 @@ export function scanPlainRunsBody(source: string, start: number, limit: number =
   let rowsWithPipe = 0;
   let lastRowEnd = -1;
   let bodyEnd = end;
-  const middle = start + Math.floor((end - start) / 2);
+  const middle = middleAt ?? start + Math.floor((end - start) / 2);
   let middleRow = -1;
   let middleOffset = -1;
+  // Its facts run to the text's end or its table's end: usable only for a pass that reads that far.
+  const next = continuation !== undefined && continuation.length === source.length && end === source.length && continuation.at > start && continuation.at < end ? continuation : undefined;
+  let joinAt = next ? next.at : -1;
   while (lf < end) {
+    if (lf === joinAt) {
+      // The rest was read by another thread: its facts continue these (or none: read on here).
+      const rest = next!.facts();
+      if (rest === undefined) return undefined;
+      if (rest !== null) {
+        const at = joinAt;
+        const restMiddle = middleRow < 0 && rest.middleRow >= 0;
+        return {
+          end: at + rest.end,
+          rowCount: rowCount + rest.rowCount,
+          rowsWithPipe: rowsWithPipe + rest.rowsWithPipe,
+          lastRowEnd: rest.lastRowEnd >= 0 ? at + rest.lastRowEnd : lastRowEnd,
+          middleRow: restMiddle ? rowCount + rest.middleRow : middleRow,
+          middleOffset: restMiddle ? at + rest.middleOffset : middleOffset,
+        };
+      }
+      joinAt = -1;
+    }
     const lineStart = lf + 1;
     const lineEnd = Math.min(found(source.indexOf("\n", lineStart)), end);
     let q = lineStart;

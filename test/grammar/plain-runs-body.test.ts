@@ -7,7 +7,7 @@
 import assert from "node:assert/strict";
 import fc from "fast-check";
 import { parseTrial } from "../../grammar/src/parse.js";
-import { scanPlainRunsBody } from "../../grammar/src/plain-runs-body.js";
+import { type PlainRunsBody, scanPlainRunsBody, withQuickPassContinuation } from "../../grammar/src/plain-runs-body.js";
 import { scanRunsTable } from "../../grammar/src/runs-scanner.js";
 import { TOP_LEVEL_KEYWORDS } from "../../grammar/src/top-level-keywords.js";
 
@@ -25,6 +25,20 @@ function agreesWithScanner(text: string, start: number, limit?: number): boolean
 }
 
 const HEADER = "runs id a b | y";
+
+const cell = fc.oneof(
+  { weight: 10, arbitrary: fc.constantFrom("r1", "a2", "x", "17.5", "-3e2", "?", "elephant", "e1234567", "é") },
+  { weight: 2, arbitrary: fc.constantFrom(...TOP_LEVEL_KEYWORDS, "runs-2", "plans", "Factor") },
+  { weight: 1, arbitrary: fc.constantFrom('"q"', 'x"y', "excluded", 'excluded "why"') },
+  { weight: 3, arbitrary: fc.constantFrom("|", "#", "# note | x", "# \r note", '# "q" note', "# excluded", 'x#"') },
+);
+const gap = fc.constantFrom(" ", "  ", "\t", " \uFEFF");
+const line = fc
+  .tuple(fc.constantFrom("", "  ", "\t", "\uFEFF"), fc.array(fc.tuple(cell, gap), { maxLength: 6 }))
+  .map(([lead, cells]) => lead + cells.map(([c, g]) => c + g).join(""));
+const lineBreak = fc.constantFrom("\n", "\n", "\r\n", "\r", "\n\n");
+/** Random runs bodies: plain-looking rows with keywords, quotes, comments and odd line breaks mixed in. */
+const randomBody = fc.tuple(fc.constantFrom("\n", "\r\n", "\r"), fc.array(fc.tuple(line, lineBreak), { maxLength: 12 }), fc.constantFrom("", "\n", "  "));
 
 describe("plain runs bodies (the quick pass)", () => {
   it("calls the usual run sheets plain: LF or CRLF, blank lines, comments, tabs, a '|', quote or 'excluded' in a comment", () => {
@@ -73,23 +87,52 @@ describe("plain runs bodies (the quick pass)", () => {
     assert.equal(f.runs!.rows, f.runs!.rows, "built once");
   });
 
-  it("agrees with the scanner on random bodies, and finds most plain-looking ones plain", () => {
-    const cell = fc.oneof(
-      { weight: 10, arbitrary: fc.constantFrom("r1", "a2", "x", "17.5", "-3e2", "?", "elephant", "e1234567", "é") },
-      { weight: 2, arbitrary: fc.constantFrom(...TOP_LEVEL_KEYWORDS, "runs-2", "plans", "Factor") },
-      { weight: 1, arbitrary: fc.constantFrom('"q"', 'x"y', "excluded", 'excluded "why"') },
-      { weight: 3, arbitrary: fc.constantFrom("|", "#", "# note | x", "# \r note", '# "q" note', "# excluded", 'x#"') },
+  it("takes another thread's facts from a line feed on (a continuation) with the same result as reading on", () => {
+    const checked = { joined: 0, declined: 0 };
+    fc.assert(
+      fc.property(randomBody, ([first, lines, tail]) => {
+        const text = `${HEADER}${first}${lines.map(([l, b]) => l + b).join("")}${tail}`;
+        const alone = scanPlainRunsBody(text, HEADER.length);
+        for (let at = text.indexOf("\n", HEADER.length + 1); at >= 0; at = text.indexOf("\n", at + 1)) {
+          let asked = 0;
+          const facts = () => {
+            asked++;
+            return scanPlainRunsBody(text.slice(at), 0, undefined, 0);
+          };
+          const joined = withQuickPassContinuation({ at, length: text.length, facts }, () => scanPlainRunsBody(text, HEADER.length));
+          const strip = (p: PlainRunsBody | undefined) => p && { end: p.end, rowCount: p.rowCount, rowsWithPipe: p.rowsWithPipe, lastRowEnd: p.lastRowEnd };
+          assert.deepEqual(strip(joined), strip(alone), `continuation at ${at}`);
+          if (asked === 0) continue;
+          if (joined === undefined) checked.declined++;
+          else {
+            checked.joined++;
+            // The middle row: the one this thread found before the line feed, else the first row after it.
+            const rows = scanRunsTable(text, HEADER.length).rows;
+            if (alone!.middleRow >= 0 && alone!.middleOffset <= at) {
+              assert.deepEqual([joined.middleRow, joined.middleOffset], [alone!.middleRow, alone!.middleOffset]);
+            } else if (joined.middleRow >= 0) {
+              assert.ok(rows.rowStart[joined.middleRow]! > at && (joined.middleRow === 0 || rows.rowStart[joined.middleRow - 1]! < at));
+              assert.equal(text.lastIndexOf("\n", rows.rowStart[joined.middleRow]! - 1) + 1, joined.middleOffset);
+            }
+          }
+          // Facts that are not available (the thread failed): read on here, the same result as alone.
+          const unavailable = withQuickPassContinuation({ at, length: text.length, facts: () => null }, () => scanPlainRunsBody(text, HEADER.length));
+          assert.deepEqual(unavailable, alone);
+        }
+      }),
+      { numRuns: 400, seed: 20261205 },
     );
-    const gap = fc.constantFrom(" ", "  ", "\t", " \uFEFF");
-    const line = fc
-      .tuple(fc.constantFrom("", "  ", "\t", "\uFEFF"), fc.array(fc.tuple(cell, gap), { maxLength: 6 }))
-      .map(([lead, cells]) => lead + cells.map(([c, g]) => c + g).join(""));
-    const lineBreak = fc.constantFrom("\n", "\n", "\r\n", "\r", "\n\n");
-    const body = fc.tuple(fc.constantFrom("\n", "\r\n", "\r"), fc.array(fc.tuple(line, lineBreak), { maxLength: 12 }), fc.constantFrom("", "\n", "  "));
+    assert.ok(checked.joined > 100 && checked.declined > 20, JSON.stringify(checked));
+    // Outside `withQuickPassContinuation`, nothing is continued.
+    const text = `${HEADER}\n  r1 a1 b1 | 1\n  r2 a2 b2 | 2\n`;
+    assert.deepEqual(scanPlainRunsBody(text, HEADER.length), withQuickPassContinuation(undefined, () => scanPlainRunsBody(text, HEADER.length)));
+  });
+
+  it("agrees with the scanner on random bodies, and finds most plain-looking ones plain", () => {
     let plain = 0;
     let runs = 0;
     fc.assert(
-      fc.property(body, fc.double({ min: 0, max: 1, noNaN: true }), ([first, lines, tail], cut) => {
+      fc.property(randomBody, fc.double({ min: 0, max: 1, noNaN: true }), ([first, lines, tail], cut) => {
         const text = `${HEADER}${first}${lines.map(([l, b]) => l + b).join("")}${tail}`;
         runs++;
         if (agreesWithScanner(text, HEADER.length)) plain++;

@@ -45,7 +45,8 @@ const RESPONSE_EXTENSIONS: readonly ResponseExtension[] = [
  * Never throws for any text.
  */
 export function analyzeDocument(text: string, defaults: AnalysisSettings = {}, overrides: AnalysisSettings = {}, engine: EngineOptions = {}): DocumentAnalysis {
-  return analyzeParsed(parseTrial(text), defaults, overrides, engine);
+  const hints = engine.quickPassContinuation ? { continuation: engine.quickPassContinuation } : {};
+  return analyzeParsed(parseTrial(text, hints), defaults, overrides, engine);
 }
 
 /** As `analyzeDocument`, for a file already parsed. */

@@ -35,13 +35,13 @@ export async function analyzeCommand(args: readonly string[], io: CliIo): Promis
   const confidence = probability(values.confidence, "confidence");
   let exit = EXIT_OK;
   for (const path of positionals) {
-    const { text, helper } = await readTrialForAnalysis(resolve(io.cwd, path), io.plainReadWorker).catch(() => {
+    const { text, helper, engine } = await readTrialForAnalysis(resolve(io.cwd, path), io.plainReadWorker).catch(() => {
       throw new UsageError(`Cannot read '${path}'.`);
     });
     const overrides = { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) };
     let analysis: DocumentAnalysis;
     try {
-      analysis = analyzeDocument(text, {}, overrides, helper ? { plainPartHelper: helper } : {});
+      analysis = analyzeDocument(text, {}, overrides, engine);
     } finally {
       helper?.close();
     }

@@ -81,12 +81,12 @@ export async function checkCommand(args: readonly string[], io: CliIo): Promise<
     } catch {
       throw new UsageError(`Cannot read '${file}'.`);
     }
-    const { text, helper } = read;
+    const { text, helper, engine } = read;
     const progress = createProgress(io, text.length);
     progress.update(`Checking ${file} (${Math.round(text.length / 1e6)} MB)...`);
     let diagnostics: readonly Diagnostic[];
     try {
-      diagnostics = analyzeDocument(text, {}, {}, helper ? { plainPartHelper: helper } : {}).diagnostics;
+      diagnostics = analyzeDocument(text, {}, {}, engine).diagnostics;
     } finally {
       helper?.close();
     }

@@ -1,4 +1,5 @@
 /** What the CLI's main thread and its reading thread (plain-read-worker.ts) share and send each other. */
+import type { PlainRunsBody } from "../../../grammar/src/plain-runs-body.js";
 import type { PlainPart, PlainPartJob } from "../analysis/read-plain-runs.js";
 
 /** Slots of the shared signal array. */
@@ -20,14 +21,17 @@ export interface PlainReadStart {
   readonly port: import("node:worker_threads").MessagePort;
 }
 
-export interface PlainReadJobMessage {
-  readonly sequence: number;
-  readonly job: PlainPartJob;
-}
+/** Read a part of a plain runs table (`readPlainPart`), or make the quick pass's facts from a line feed on. */
+export type PlainReadJobMessage =
+  | { readonly kind: "part"; readonly sequence: number; readonly job: PlainPartJob }
+  | { readonly kind: "tail"; readonly sequence: number; readonly at: number };
 
 export interface PlainReadAnswer {
   readonly sequence: number;
-  /** Undefined when the part was declined; `error` when reading it failed. */
+  /** A "part" job's part; absent when it was declined. */
   readonly part?: PlainPart;
+  /** A "tail" job's facts; null when the text from there is not plain. */
+  readonly facts?: PlainRunsBody | null;
+  /** Set when the job failed (a bug): the main thread then does the work itself. */
   readonly error?: string;
 }

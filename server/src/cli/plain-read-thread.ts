@@ -13,7 +13,8 @@
 import { existsSync } from "node:fs";
 import { MessageChannel, type MessagePort, receiveMessageOnPort, Worker } from "node:worker_threads";
 import { type PlainColumn, type PlainColumns, plainColumns, type PlainPart, type PlainPartHelper, type PlainPartJob } from "../analysis/read-plain-runs.js";
-import { type PlainReadAnswer, type PlainReadStart, Signal } from "./plain-read-protocol.js";
+import type { PlainRunsBody, QuickPassContinuation } from "../../../grammar/src/plain-runs-body.js";
+import { type PlainReadAnswer, type PlainReadJobMessage, type PlainReadStart, Signal } from "./plain-read-protocol.js";
 
 /** Files from this size on get the thread: below it, a table reads in a few milliseconds. */
 export const PLAIN_READ_THREAD_FROM_BYTES = 4 * 1024 * 1024;
@@ -25,9 +26,10 @@ const ANSWER_TIMEOUT_MS = 30_000;
 export class PlainReadThread implements PlainPartHelper {
   private sequence = 0;
   private broken = false;
-  /** Parts asked for and parts the worker read (for `TRIALBOOK_DEBUG_READ_THREAD`). */
+  /** Parts asked for, parts the worker read, and its quick passes taken (for `TRIALBOOK_DEBUG_READ_THREAD`). */
   asked = 0;
   read = 0;
+  tails = 0;
 
   private constructor(
     private readonly worker: Worker,
@@ -63,8 +65,38 @@ export class PlainReadThread implements PlainPartHelper {
     if (this.broken) return undefined;
     const sequence = ++this.sequence;
     this.asked++;
-    this.port.postMessage({ sequence, job });
-    return () => this.answer(sequence);
+    this.port.postMessage({ kind: "part", sequence, job } satisfies PlainReadJobMessage);
+    return () => {
+      const part = this.answer(sequence)?.part;
+      if (part) this.read++;
+      return part;
+    };
+  }
+
+  /**
+   * Asks now for the quick pass's facts of the text from the line feed at `at` on (the text, of `length`
+   * characters, is the Latin-1 copy of the shared bytes); the parser takes them when its quick pass gets
+   * there.
+   */
+  continuation(at: number, length: number): QuickPassContinuation | undefined {
+    if (this.broken) return undefined;
+    const sequence = ++this.sequence;
+    this.port.postMessage({ kind: "tail", sequence, at } satisfies PlainReadJobMessage);
+    let facts: PlainRunsBody | undefined | null;
+    let waited = false;
+    return {
+      at,
+      length,
+      facts: () => {
+        if (!waited) {
+          waited = true;
+          const answer = this.answer(sequence);
+          facts = answer === undefined || answer.error !== undefined || answer.facts === undefined ? null : (answer.facts ?? undefined);
+          if (facts !== null) this.tails++;
+        }
+        return facts;
+      },
+    };
   }
 
   /** Stops the worker (a command calls this when it is done with its files). */
@@ -73,10 +105,11 @@ export class PlainReadThread implements PlainPartHelper {
   }
 
   /**
-   * Waits for the answer to job `sequence`. A worker that never started or never answers makes its part
-   * declined (the whole table then takes the general path) and is not used again.
+   * Waits for the answer to job `sequence`; undefined when a worker never started or never answered
+   * (then its part is declined and the whole table takes the general path; its tail is read here) and
+   * it is not used again.
    */
-  private answer(sequence: number): PlainPart | undefined {
+  private answer(sequence: number): PlainReadAnswer | undefined {
     if (Atomics.load(this.signal, Signal.Ready) !== 1) Atomics.wait(this.signal, Signal.Ready, 0, READY_TIMEOUT_MS);
     if (Atomics.load(this.signal, Signal.Ready) !== 1) {
       this.broken = true;
@@ -89,8 +122,7 @@ export class PlainReadThread implements PlainPartHelper {
         const answer = received.message as PlainReadAnswer;
         if (answer.sequence !== sequence) continue; // a late answer to a job given up on
         if (answer.error !== undefined) this.broken = true;
-        if (answer.part) this.read++;
-        return answer.part;
+        return answer;
       }
       const left = deadline - Date.now();
       if (left <= 0 || this.broken) {
@@ -108,5 +140,5 @@ export class PlainReadThread implements PlainPartHelper {
 /** With `TRIALBOOK_DEBUG_READ_THREAD=1`: says on stderr whether a file's table was read on two threads. */
 export function reportReadThread(env: Readonly<Record<string, string | undefined>>, stderr: (text: string) => void, thread: PlainReadThread | undefined): void {
   if (env.TRIALBOOK_DEBUG_READ_THREAD !== "1") return;
-  stderr(`reading thread: ${thread ? `${thread.read} of ${thread.asked} parts read` : "not started"}\n`);
+  stderr(`reading thread: ${thread ? `${thread.read} of ${thread.asked} parts read, ${thread.tails} quick pass taken` : "not started"}\n`);
 }

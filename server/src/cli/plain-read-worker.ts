@@ -1,9 +1,11 @@
 /**
- * The CLI's reading thread (bundled to dist/plain-read-worker.cjs): reads the later half of a large plain
- * runs table (`readPlainPart`) from the file's bytes in shared memory while the main thread reads the
- * first half into the same shared columns (plain-read-thread.ts). It holds no state between jobs.
+ * The CLI's reading thread (bundled to dist/plain-read-worker.cjs), working on the file's bytes in shared
+ * memory while the main thread works on the first half (plain-read-thread.ts): the quick pass's facts
+ * of the text's second half ("tail", while the main thread lexes), then the later half of a large plain
+ * runs table (`readPlainPart`, "part") into the same shared columns. It holds no state between jobs.
  */
 import { workerData } from "node:worker_threads";
+import { scanPlainRunsBody } from "../../../grammar/src/plain-runs-body.js";
 import { readPlainPart } from "../analysis/read-plain-runs.js";
 import { byteChunks } from "./byte-chunks.js";
 import { type PlainReadAnswer, type PlainReadJobMessage, type PlainReadStart, Signal } from "./plain-read-protocol.js";
@@ -12,11 +14,19 @@ const { bytes, signal, port } = workerData as PlainReadStart;
 // The main thread's text is the Latin-1 copy of these bytes, all ASCII: the same characters at the same offsets.
 const load = byteChunks(new Uint8Array(bytes));
 
-port.on("message", ({ sequence, job }: PlainReadJobMessage) => {
+port.on("message", (message: PlainReadJobMessage) => {
+  const sequence = message.sequence;
   let answer: PlainReadAnswer;
   try {
-    const part = readPlainPart(load, job);
-    answer = part ? { sequence, part } : { sequence };
+    if (message.kind === "tail") {
+      // The text from the line feed at `at` on: its facts as the quick pass would find them there, with
+      // the first row after `at` as the middle row (QuickPassContinuation in plain-runs-body.ts).
+      const tail = Buffer.from(bytes, message.at).toString("latin1");
+      answer = { sequence, facts: scanPlainRunsBody(tail, 0, tail.length, 0) ?? null };
+    } else {
+      const part = readPlainPart(load, message.job);
+      answer = part ? { sequence, part } : { sequence };
+    }
   } catch (error) {
     answer = { sequence, error: error instanceof Error ? error.message : String(error) };
   }

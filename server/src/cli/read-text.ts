@@ -14,6 +14,8 @@
 import { isAscii } from "node:buffer";
 import { open } from "node:fs/promises";
 import { prepareParsing } from "../../../grammar/src/parse.js";
+import { Char } from "../../../grammar/src/char-codes.js";
+import type { EngineOptions } from "../analysis/engine-options.js";
 import { PLAIN_READ_THREAD_FROM_BYTES, PlainReadThread } from "./plain-read-thread.js";
 
 /** The text of a file's bytes: a Latin-1 copy when all are ASCII, else UTF-8 decoding (`Buffer.toString`). */
@@ -37,8 +39,10 @@ export async function readTrialFile(path: string): Promise<string> {
 /** A `.trial` file read for analysis: its text, and for a large file the thread that helps read it. */
 export interface TrialText {
   readonly text: string;
-  /** Given to the engine (`EngineOptions.plainPartHelper`); `close` it when done. */
+  /** `close` it when done. */
   readonly helper?: PlainReadThread;
+  /** What the engine is given (`engineOptions`). */
+  readonly engine: EngineOptions;
 }
 
 /**
@@ -61,13 +65,17 @@ export async function readTrialForAnalysis(path: string, workerScript: string | 
   try {
     const bytes = await reading;
     const ascii = isAscii(bytes);
-    const text = decodeText(bytes, ascii);
     // The thread reads the shared bytes: only useful when they are the whole file and the text's characters.
     if (thread && !(ascii && bytes.buffer === shared && bytes.byteOffset === 0 && bytes.length === shared.byteLength)) {
       thread.close();
       thread = undefined;
     }
-    return thread ? { text, helper: thread } : { text };
+    // Asked for before the text is made, so that the thread's quick pass over the second half overlaps it.
+    const middle = thread ? bytes.indexOf(Char.LF, bytes.length >> 1) : -1;
+    const continuation = thread && middle >= 0 ? thread.continuation(middle, bytes.length) : undefined;
+    const text = decodeText(bytes, ascii);
+    if (!thread) return { text, engine: {} };
+    return { text, helper: thread, engine: { plainPartHelper: thread, ...(continuation ? { quickPassContinuation: continuation } : {}) } };
   } catch (error) {
     (thread as PlainReadThread | undefined)?.close();
     throw error;
