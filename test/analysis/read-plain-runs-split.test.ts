@@ -49,7 +49,7 @@ function body(rows: number, idOf: (i: number) => string = (i) => `r${i + 1}`): {
     if (i % 11 === 5) text += "\r\n";
     lineStarts.push(text.length);
     const y = i % 13 === 2 ? "?" : `${(20 + i / 8).toFixed(3)}`;
-    const z = i % 17 === 9 ? "?" : `-${i}.5`;
+    const z = i % 17 === 9 ? "?" : i % 7 === 1 ? (i % 2 ? "0.0" : "-0") : `-${i}.5`;
     text += `  ${idOf(i)} a${(i % 3) + 1} 1${i % 9}.25 | ${y} ${z}${i % 5 === 0 ? " # note" : ""}${i % 2 ? "\r\n" : "\n"}`;
   }
   return { text, lineStarts };
@@ -62,6 +62,7 @@ function asData(read: ReturnType<typeof readPlainRuns>): unknown {
     values: read.values.map((v) => [Array.from(v.mantissa), Array.from(v.exponent)]),
     pending: read.pending.map((p) => (p ? Array.from(p) : undefined)),
     pendingCells: [...read.pendingCells],
+    tallies: Object.fromEntries(Object.entries(read.tallies).map(([key, value]) => [key, Array.isArray(value) ? value.map((a) => Array.from(a as ArrayLike<number>)) : Array.from(value as ArrayLike<number>)])),
   };
 }
 

@@ -192,4 +192,57 @@ describe("plain runs tables read in one pass", () => {
     // Both paths are exercised: the generator makes regular tables often enough.
     assert.ok(plain > runs / 5 && plain < runs, `${plain} of ${runs} read by the plain reader`);
   });
+
+  it("counts as it reads what the checks and the centring would count afterwards (tallies)", () => {
+    // Header columns in another order than the declarations, a random factor (not a cell factor), a
+    // sorted run order of 'a', a missing replicate, zeros of both signs and values of several exponents.
+    const declarations = ["response y unit mm", "response z unit mm", "factor a levels a1, a2, a3", "factor b levels low, high", "factor lot levels L1, L2 as random", "plan", "  replicates 17"].join("\n");
+    const rows: string[] = [];
+    for (let i = 0; i < 200; i++) {
+      if (i === 17) continue; // a2 x low x L2 loses a run
+      const a = `a${Math.floor(i / 67) + 1}`;
+      const y = ["-0", "0.0", "12.5", "-3", "1250", "0.00125"][i % 6];
+      rows.push(`  r${i + 1} ${["low", "high"][i % 2]} L${((i >> 1) % 2) + 1} ${a} | ${(7.25 + i / 16).toFixed(3)} ${y}\n`);
+    }
+    const text = `${declarations}\nruns id b lot a | y z\n${rows.join("")}`;
+    const file = parseTrial(text);
+    const fast = analyzeParsed(file);
+    const general = analyzeParsed(withoutPlainBody(file));
+    const tallies = fast.design.runs.tallies!;
+    assert.ok(tallies, "the plain reader's tallies");
+    assert.equal(general.design.runs.tallies, undefined);
+    assert.deepEqual(fast.diagnostics, general.diagnostics);
+    assert.deepEqual(JSON.parse(JSON.stringify(fast.responses)), JSON.parse(JSON.stringify(general.responses)));
+    const codes = new Set<string>(fast.diagnostics.map((d) => d.code));
+    for (const code of ["systematic-order", "missing-replicate", "unbalanced-cells"]) assert.ok(codes.has(code), `${code} in ${[...codes].join(", ")}`);
+    // The tallies against counting the design's runs afterwards.
+    const { levels } = fast.design.runs;
+    fast.design.factors.forEach((factor, f) => {
+      const counts = new Int32Array(factor.levels.length);
+      const rankSums = new Float64Array(factor.levels.length);
+      const firstRuns = new Int32Array(factor.levels.length).fill(-1);
+      levels[f]!.forEach((level, r) => {
+        counts[level]!++;
+        rankSums[level] += r + 1;
+        if (firstRuns[level]! < 0) firstRuns[level] = r;
+      });
+      assert.deepEqual(tallies.levels[f], { counts, rankSums, firstRuns }, factor.name);
+    });
+    const radices = fast.design.factors.map((f) => f.levels.length);
+    const cellCounts = new Int32Array(radices.reduce((a, b) => a * b, 1));
+    const cellFirst = new Int32Array(cellCounts.length).fill(-1);
+    for (let r = 0; r < fast.design.runs.count; r++) {
+      const d = levels.reduce((cell, l, f) => cell * radices[f]! + l[r]!, 0);
+      cellCounts[d]!++;
+      if (cellFirst[d]! < 0) cellFirst[d] = r;
+    }
+    assert.deepEqual(tallies.cells, { counts: cellCounts, firstRuns: cellFirst });
+    // z holds zeros of both signs (-0 first) and -3 at exponent 0: the largest is the first zero met, as in
+    // the centring's own pass.
+    assert.equal(tallies.responseExtremes[1]!.lowest[22], -3);
+    assert.ok(Object.is(tallies.responseExtremes[1]!.highest[22], -0));
+    assert.equal(tallies.responseExtremes[1]!.scale, -5);
+    assert.deepEqual(Array.from(tallies.responseExtremes[1]!.present.keys()).filter((k) => tallies.responseExtremes[1]!.present[k]), [-5 + 22, -1 + 22, 22, 23]);
+  });
 });
+

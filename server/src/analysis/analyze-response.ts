@@ -142,8 +142,10 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   }
 
   // Centred from the values checked when the design was built; a text is read only where exact
-  // arithmetic in doubles does not suffice (see centerDecimalColumn).
-  const centred = centerDecimalColumn(runs.responseValues[responseIndex]!, selected, (r) => responseText(runs, responseIndex, r));
+  // arithmetic in doubles does not suffice (see centerDecimalColumn). With the reader's tallies, the runs
+  // selected are exactly those where this response is measured, over which the reader found the extremes.
+  const extremes = runs.tallies?.responseExtremes[responseIndex];
+  const centred = centerDecimalColumn(runs.responseValues[responseIndex]!, selected, (r) => responseText(runs, responseIndex, r), extremes);
   if (!centred.ok) {
     const r = selected[centred.index]!;
     diagnostics.push(diagnostic("value-out-of-range", responseSpan(runs, responseIndex, r) ?? anchors.response, `This value of '${response.name}' cannot be analysed: ${centred.reason}`));

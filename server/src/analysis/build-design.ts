@@ -1,7 +1,7 @@
 import type { DecimalNumber, FactorDecl, Name, PlanSetting, RunRows, RunsTable, Span, TrialFile } from "../../../grammar/src/ast.js";
 import { cellText } from "../../../grammar/src/runs-table.js";
 import { type DecimalScan, emptyScan, rangeReason, scanDecimal, scanValue } from "../stats/decimal/parse-decimal.js";
-import { type DecimalColumn, decimalColumn, storeDecimal, storePlainDecimal } from "../stats/decimal/center-decimals.js";
+import { type DecimalColumn, type DecimalExtremes, decimalColumn, storeDecimal, storePlainDecimal } from "../stats/decimal/center-decimals.js";
 import { type DuplicateRunIds, duplicateRunIds } from "./duplicate-run-ids.js";
 import type {
   Design,
@@ -11,6 +11,7 @@ import type {
   DesignRuns,
   DesignSettings,
   DesignTerm,
+  RunTallies,
   SumsOfSquaresType,
   TermVariable,
 } from "./design.js";
@@ -20,7 +21,7 @@ import { definingRelation } from "../stats/two-level/aliases.js";
 import { wordOf } from "../stats/two-level/words.js";
 import { type Diagnostic, DiagnosticSink, diagnostic } from "./diagnostics.js";
 import { resolvePairwise } from "./resolve-pairwise.js";
-import { PlainColumn, type PlainRunsLayout, type PlainSplit, readPlainRuns } from "./read-plain-runs.js";
+import { PlainColumn, type PlainRunsLayout, type PlainSplit, type PlainTallies, readPlainRuns } from "./read-plain-runs.js";
 import type { EngineOptions } from "./engine-options.js";
 
 /** Analysis settings that can come from outside the file: editor settings (defaults) or CLI flags (overrides). */
@@ -852,6 +853,9 @@ function readPlainTable(
   const responseValues = values(responseColumns);
   // Every variable has its column and no response is pending, so every run has every level and value.
   const complete = read.pendingCells.length === 0 && [...factorColumns, ...covariateColumns, ...responseColumns].every((column) => column >= 0);
+  // Every run's levels and covariates are known when each factor and covariate has its column (the reader
+  // declines an unknown level and a covariate's `?`): then the reader's counts are the design's.
+  const tallies = [...factorColumns, ...covariateColumns].every((column) => column >= 0) ? designTallies(read.tallies, layout, factorColumns, responseColumns) : undefined;
   let idCells: Int32Array | undefined;
   const runs = attachRunTexts({
     count,
@@ -875,6 +879,7 @@ function readPlainTable(
     responseValues: responseValues.stored,
     covariateValues: covariateValues.stored,
     ...(complete ? { complete: true as const } : {}),
+    ...(tallies ? { tallies } : {}),
   });
   // As the general path reports them: one note per row with a pending response, from the cells the reader
   // recorded (the table's rows are not built for them).
@@ -893,6 +898,52 @@ function readPlainTable(
     if (note) sink.add(note);
   }
   return runs;
+}
+
+/** The reader's extremes (±Infinity where no value was met) as the design's plain finite numbers. */
+function decimalExtremes(lowest: Float64Array, highest: Float64Array, scale: number): DecimalExtremes {
+  const present = Uint8Array.from(lowest, (low) => (low === Infinity ? 0 : 1));
+  return {
+    present,
+    lowest: lowest.map((low, k) => (present[k] ? low : 0)),
+    highest: highest.map((high, k) => (present[k] ? high : 0)),
+    scale: scale === Infinity ? null : scale,
+  };
+}
+
+/**
+ * The reader's counts (per header column) as the design's (per factor, response): cell combinations are
+ * renumbered from the header's order of the factor columns to the factors' declared order.
+ */
+function designTallies(read: PlainTallies, layout: PlainRunsLayout, factorColumns: readonly number[], responseColumns: readonly number[]): RunTallies {
+  const levels = factorColumns.map((column) => ({ counts: read.levelCounts[column]!, rankSums: read.rankSums[column]!, firstRuns: read.firstRows[column]! }));
+  const responseExtremes = responseColumns.map((column) => (column >= 0 ? decimalExtremes(read.lowest[column]!, read.highest[column]!, read.scales[column]!) : undefined));
+  if (read.cellCounts.length === 0) return { levels, responseExtremes };
+  // The header's factor columns, most significant first, and each one's place value in the design's order.
+  const headerColumns = layout.kinds.flatMap((kind, column) => (kind === PlainColumn.Factor ? [column] : []));
+  const radixOf = (column: number) => layout.levelNames[column]!.length;
+  const placeOf = new Map<number, number>();
+  for (let f = factorColumns.length - 1, place = 1; f >= 0; f--) {
+    placeOf.set(factorColumns[f]!, place);
+    place *= radixOf(factorColumns[f]!);
+  }
+  const combinations = factorColumns.reduce((product, column) => product * radixOf(column), 1);
+  const counts = new Int32Array(combinations);
+  const firstRuns = new Int32Array(combinations).fill(-1);
+  for (let h = 0; h < read.cellCounts.length; h++) {
+    let rest = h;
+    let d = 0;
+    for (let q = headerColumns.length - 1; q >= 0; q--) {
+      const column = headerColumns[q]!;
+      const radix = radixOf(column);
+      // A factor column the design does not use (a second column of one factor is skipped) has no place.
+      d += (rest % radix) * (placeOf.get(column) ?? 0);
+      rest = Math.floor(rest / radix);
+    }
+    counts[d] += read.cellCounts[h]!;
+    if (read.cellFirstRows[h]! >= 0 && (firstRuns[d]! < 0 || read.cellFirstRows[h]! < firstRuns[d]!)) firstRuns[d] = read.cellFirstRows[h]!;
+  }
+  return { levels, cells: { counts, firstRuns }, responseExtremes };
 }
 
 /** Largest number of levels looked up by comparing characters in place (beyond it, a map of names). */
@@ -1150,7 +1201,27 @@ function checkCells(design: Design, file: TrialFile, sink: DiagnosticSink): void
   const radices = Int32Array.from(cellFactors, (f) => design.factors[f]!.levels.length);
   const statusArrays = runs.responseStatus;
   const excluded = runs.excluded;
-  for (let r = 0; r < runs.count; r++) {
+  const tallied = runs.complete ? runs.tallies?.cells : undefined;
+  if (tallied) {
+    // Counted as the runs were read (every run complete, none excluded): the combinations of every factor's
+    // levels, added up over the factors that are not cell factors.
+    const allRadices = design.factors.map((f) => f.levels.length);
+    const placeOf = allRadices.map((_, f) => allRadices.slice(f + 1).reduce((product, radix) => product * radix, 1));
+    for (let d = 0; d < tallied.counts.length; d++) {
+      const count = tallied.counts[d]!;
+      if (count === 0) continue;
+      let c = 0;
+      for (let q = 0; q < cellFactors.length; q++) {
+        const f = cellFactors[q]!;
+        c = c * radices[q]! + (Math.floor(d / placeOf[f]!) % allRadices[f]!);
+      }
+      planned[c] += count;
+      const first = tallied.firstRuns[d]!;
+      if (firstRun[c]! < 0 || first < firstRun[c]!) firstRun[c] = first;
+    }
+    for (let k = 0; k < responseCount; k++) measuredCounts.set(planned, k * cellCount);
+  }
+  for (let r = 0; r < (tallied ? 0 : runs.count); r++) {
     if (excluded[r]) continue;
     let c = 0;
     for (let q = 0; q < levelArrays.length; q++) {

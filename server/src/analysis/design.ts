@@ -1,5 +1,5 @@
 import type { FactorRole, Goal, RunRows, Span } from "../../../grammar/src/ast.js";
-import type { DecimalColumn } from "../stats/decimal/center-decimals.js";
+import type { DecimalColumn, DecimalExtremes } from "../stats/decimal/center-decimals.js";
 
 /** A factor level after name resolution. */
 export interface DesignLevel {
@@ -123,6 +123,25 @@ export interface DesignRuns {
    * skip finding the runs it can use. Absent when not known, not when false.
    */
   readonly complete?: true;
+  /**
+   * Counts made as the runs were read (by the plain-table reader), so that the checks and the centring
+   * need no pass of their own; equal to counting afterwards. Present only when no run is excluded and
+   * every run's factor levels and covariates are known (a response may be pending).
+   */
+  readonly tallies?: RunTallies;
+}
+
+/** See `DesignRuns.tallies`. */
+export interface RunTallies {
+  /** Per factor: runs per level, the sum of their run numbers (index + 1), and each level's first run (-1 none). */
+  readonly levels: readonly { readonly counts: Int32Array; readonly rankSums: Float64Array; readonly firstRuns: Int32Array }[];
+  /**
+   * Runs per combination of every factor's level (factor 0 most significant, each factor's digit in base
+   * its number of levels) and each combination's first run (-1 none); undefined when not counted.
+   */
+  readonly cells?: { readonly counts: Int32Array; readonly firstRuns: Int32Array };
+  /** Per response: the centring's first pass over its measured values (undefined: a response without a column). */
+  readonly responseExtremes: readonly (DecimalExtremes | undefined)[];
 }
 
 /**

@@ -55,6 +55,8 @@ export interface PlainRuns {
    * pending rows need no `RunRows`.
    */
   readonly pendingCells: readonly number[];
+  /** What the reader counted (`PlainTallies`). */
+  readonly tallies: PlainTallies;
 }
 
 
@@ -205,7 +207,38 @@ export interface PlainPart {
   /** The trailing numbers of the part's first and last ids; -1 without an id column. */
   readonly firstId: number;
   readonly lastId: number;
+  /** What the part counted of its rows. */
+  readonly tallies: PlainTallies;
 }
+
+/**
+ * What the reader counts as it reads, so that the checks and the centring that follow need no pass over
+ * the runs of their own: exact integers (and stored decimals), equal to counting afterwards (tested).
+ * Arrays are per header column, empty for columns of another kind.
+ */
+export interface PlainTallies {
+  /** Per factor column: runs per level, the sum of their run numbers (row + 1), each level's first row (-1 none). */
+  readonly levelCounts: readonly Int32Array[];
+  readonly rankSums: readonly Float64Array[];
+  readonly firstRows: readonly Int32Array[];
+  /**
+   * Runs per combination of the factor columns' levels (the first factor column most significant) and
+   * each combination's first row; empty when there are more than `MAX_TALLIED_CELLS` combinations.
+   */
+  readonly cellCounts: Int32Array;
+  readonly cellFirstRows: Int32Array;
+  /**
+   * Per value column, over its measured values: the smallest and largest stored mantissa per stored
+   * exponent (`DecimalExtremes`, 45 entries from exponent -22 on), and the smallest exponent of a
+   * nonzero value (Infinity: none).
+   */
+  readonly lowest: readonly Float64Array[];
+  readonly highest: readonly Float64Array[];
+  readonly scales: Float64Array;
+}
+
+/** Combinations of levels counted at most (beyond, the cell checks count them in a pass of their own). */
+export const MAX_TALLIED_CELLS = 1 << 16;
 
 /** Reading rows `[firstRow, endRow)` of a table from the text `[from, to)` into `columns`. */
 export interface PlainPartJob {
@@ -261,9 +294,28 @@ class PlainReader {
   base = 0;
   row: number;
   previousId = -1;
+  readonly tallies: PlainTallies;
+  /** Per column: its factor's number of levels (the radix of its digit in a combination), 0 for others. */
+  readonly radices: Int32Array;
+  readonly tallyCells: boolean;
 
   constructor(layout: PlainRunsLayout, columns: PlainColumns, firstRow: number) {
     const kinds = layout.kinds;
+    this.radices = Int32Array.from(kinds, (kind, column) => (kind === PlainColumn.Factor ? layout.levelNames[column]!.length : 0));
+    const combinations = Array.from(this.radices).reduce((product, radix) => (radix > 0 ? product * radix : product), 1);
+    this.tallyCells = combinations <= MAX_TALLIED_CELLS;
+    const perLevel = <T>(make: (length: number) => T) => kinds.map((kind, column) => make(kind === PlainColumn.Factor ? layout.levelNames[column]!.length : 0));
+    const perValue = (fill: number) => kinds.map((kind) => new Float64Array(isValue(kind) ? 45 : 0).fill(fill));
+    this.tallies = {
+      levelCounts: perLevel((n) => new Int32Array(n)),
+      rankSums: perLevel((n) => new Float64Array(n)),
+      firstRows: perLevel((n) => new Int32Array(n).fill(-1)),
+      cellCounts: new Int32Array(this.tallyCells ? combinations : 0),
+      cellFirstRows: new Int32Array(this.tallyCells ? combinations : 0).fill(-1),
+      lowest: perValue(Infinity),
+      highest: perValue(-Infinity),
+      scales: new Float64Array(kinds.length).fill(Infinity),
+    };
     this.columnCount = kinds.length;
     this.kindOf = Int8Array.from(kinds);
     this.pipeAt = layout.pipeAt;
@@ -289,10 +341,12 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
   const columnCount = reader.columnCount;
   const pipeAt = reader.pipeAt;
   const row = reader.row;
+  const tallies = reader.tallies;
   let column = 0;
   let pipeSeen = false;
   let idStart = -1;
   let idEnd = -1;
+  let cell = 0;
   for (;;) {
     let c = bytes[i]!;
     if (c === Char.Space || c === Char.Tab) {
@@ -351,14 +405,26 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
         }
       }
       if (exponent > 22 || exponent < -22) return -1;
-      reader.mantissas[column]![row] = negative ? -mantissa : mantissa;
+      const stored = negative ? -mantissa : mantissa;
+      reader.mantissas[column]![row] = stored;
       reader.exponents[column]![row] = exponent;
+      // The centring's extremes, in row order as its own pass would meet them (the first zero's sign kept).
+      const lowest = tallies.lowest[column]!;
+      const highest = tallies.highest[column]!;
+      if (stored < lowest[exponent + 22]!) lowest[exponent + 22] = stored;
+      if (stored > highest[exponent + 22]!) highest[exponent + 22] = stored;
+      if (stored !== 0 && exponent < tallies.scales[column]!) tallies.scales[column] = exponent;
     } else if (what === PlainColumn.Factor) {
       const s = i;
       while (endsCell[bytes[i]!] === 0) i++;
       const level = levelOf(reader.lookups[column]!, bytes, s, i);
       if (level < 0) return -1;
       reader.levels[column]![row] = level;
+      tallies.levelCounts[column]![level]!++;
+      tallies.rankSums[column]![level] += row + 1;
+      const firstRows = tallies.firstRows[column]!;
+      if (firstRows[level]! < 0) firstRows[level] = row;
+      cell = cell * reader.radices[column]! + level;
     } else if (what === PlainColumn.Id) {
       // The number in the id's trailing digits (at most 15): the test of `increasingNumberedIds`
       // (duplicate-run-ids.ts), which proves ids distinct when these grow from row to row.
@@ -385,6 +451,10 @@ function readRow(reader: PlainReader, bytes: Uint8Array, i: number): number {
     column++;
   }
   if (column !== columnCount || (pipeAt >= 0 && !pipeSeen)) return -1;
+  if (reader.tallyCells) {
+    tallies.cellCounts[cell]!++;
+    if (tallies.cellFirstRows[cell]! < 0) tallies.cellFirstRows[cell] = row;
+  }
   return i;
 }
 
@@ -434,7 +504,7 @@ export function readPlainPart(load: AsciiChunkLoader, job: PlainPartJob): PlainP
     p = i + base;
   }
   if (reader.row !== endRow) return undefined;
-  return { pending: reader.pending, pendingCells: reader.pendingCells, firstId, lastId: reader.previousId };
+  return { pending: reader.pending, pendingCells: reader.pendingCells, firstId, lastId: reader.previousId, tallies: reader.tallies };
 }
 
 /**
@@ -473,5 +543,27 @@ export function readPlainRuns(source: string, start: number, end: number, rowCou
   });
   const pendingCells = done.length === 1 ? done[0]!.pendingCells : done.flatMap((part) => part.pendingCells);
   const values = columns.mantissas.map((mantissa, column) => ({ mantissa, exponent: columns.exponents[column]! }));
-  return { levels: columns.levels, values, pending, pendingCells };
+  const tallies = done.map((part) => part.tallies).reduce(mergeTallies);
+  return { levels: columns.levels, values, pending, pendingCells, tallies };
+}
+
+/**
+ * The tallies of two parts, `first` read before `second` in row order, as one pass over both would make
+ * them: counts and run-number sums (whole numbers) add, first rows come from the first part that has one,
+ * and an extreme of the second part replaces one of the first only when strictly beyond it (as the pass
+ * would keep the value it met first, which matters for the sign of a zero).
+ */
+function mergeTallies(first: PlainTallies, second: PlainTallies): PlainTallies {
+  const add = <T extends Int32Array | Float64Array>(a: T, b: T) => a.map((x, i) => x + b[i]!) as T;
+  const firstOf = (a: Int32Array, b: Int32Array) => a.map((x, i) => (x >= 0 ? x : b[i]!));
+  return {
+    levelCounts: first.levelCounts.map((a, column) => add(a, second.levelCounts[column]!)),
+    rankSums: first.rankSums.map((a, column) => add(a, second.rankSums[column]!)),
+    firstRows: first.firstRows.map((a, column) => firstOf(a, second.firstRows[column]!)),
+    cellCounts: add(first.cellCounts, second.cellCounts),
+    cellFirstRows: firstOf(first.cellFirstRows, second.cellFirstRows),
+    lowest: first.lowest.map((a, column) => a.map((x, i) => (second.lowest[column]![i]! < x ? second.lowest[column]![i]! : x))),
+    highest: first.highest.map((a, column) => a.map((x, i) => (second.highest[column]![i]! > x ? second.highest[column]![i]! : x))),
+    scales: first.scales.map((x, i) => Math.min(x, second.scales[i]!)),
+  };
 }

@@ -68,17 +68,42 @@ export function orderClustering(levels: ArrayLike<number>, levelCount?: number):
   let k = 0;
   for (let level = 0; level < count; level++) if (sizes[level]! > 0) k++;
   if (k < 2 || n <= k) return undefined;
-  // The sum of R_i^2 / n_i is formed in order of the levels' first appearance (as a map of the levels
-  // would iterate them); every level usually appears within the first few runs.
+  // The levels in order of their first appearance (as a map of the levels would iterate them); every
+  // level usually appears within the first few runs.
   const seen = new Uint8Array(count);
-  let sum = 0;
-  for (let r = 0, found = 0; found < k; r++) {
+  const order: number[] = [];
+  for (let r = 0; order.length < k; r++) {
     const level = levels[r]!;
     if (level < 0 || seen[level]) continue;
     seen[level] = 1;
-    found++;
-    sum += (rankSums[level]! * rankSums[level]!) / sizes[level]!;
+    order.push(level);
   }
+  return clustering(n, order, sizes, rankSums);
+}
+
+/**
+ * `orderClustering` of a factor whose every run's level is known, from counts made as the runs were
+ * read (`DesignRuns.tallies`): runs per level, the sum of their run numbers, each level's first run (-1
+ * for a level without runs). The same numbers, bit for bit.
+ */
+export function orderClusteringOfTally(sizes: Int32Array, rankSums: Float64Array, firstRuns: Int32Array): OrderClustering | undefined {
+  let n = 0;
+  const order: number[] = [];
+  for (let level = 0; level < sizes.length; level++) {
+    n += sizes[level]!;
+    if (sizes[level]! > 0) order.push(level);
+  }
+  if (order.length < 2 || n <= order.length) return undefined;
+  order.sort((a, b) => firstRuns[a]! - firstRuns[b]!);
+  return clustering(n, order, sizes, rankSums);
+}
+
+/** H and the corrected correlation of `n` runs; `order`: the levels present, in order of first appearance. */
+function clustering(n: number, order: readonly number[], sizes: Int32Array, rankSums: Float64Array): OrderClustering {
+  const k = order.length;
+  // The sum of R_i^2 / n_i, formed in the levels' order of first appearance.
+  let sum = 0;
+  for (const level of order) sum += (rankSums[level]! * rankSums[level]!) / sizes[level]!;
   // H = 12 / (n (n + 1)) * sum(R_i^2 / n_i) - 3 (n + 1); clamped at 0 against rounding.
   const h = Math.max(0, (12 / (n * (n + 1))) * sum - 3 * (n + 1));
   const corrected = Math.min(1, Math.max(0, (h - (k - 1)) / (n - k)));
@@ -96,7 +121,9 @@ export function checkSystematicOrder(file: TrialFile, design: Design): Diagnosti
   const out: Diagnostic[] = [];
   design.factors.forEach((factor, f) => {
     if (factor.role !== "fixed") return;
-    const c = orderClustering(design.runs.levels[f]!, factor.levels.length);
+    // Counted as the runs were read when the reader did (the same numbers; no pass over the runs).
+    const tally = design.runs.tallies?.levels[f];
+    const c = tally ? orderClusteringOfTally(tally.counts, tally.rankSums, tally.firstRuns) : orderClustering(design.runs.levels[f]!, factor.levels.length);
     if (!c || c.n < SYSTEMATIC_ORDER_MIN_RUNS || c.correlation < SYSTEMATIC_ORDER_THRESHOLD) return;
     const column = table.columns.find((x) => x.text === factor.name);
     out.push(

@@ -71,6 +71,20 @@ export interface DecimalColumn {
 /** `DecimalColumn.exponent` of a value kept only as its text (more than 15 digits or beyond 10^±22). */
 export const EXPONENT_FROM_TEXT = -128;
 
+/**
+ * The first pass of `centerDecimalColumn` over a set of rows, made elsewhere (the plain-table reader
+ * counts it as it reads): per stored exponent e (entry e + 22) where `present`, the smallest and largest
+ * mantissa among the rows' values in row order (a strict comparison, so the first zero met keeps its
+ * sign); and the smallest exponent of a nonzero value (null: none). Only for rows of which none is kept
+ * as text. Plain finite numbers, as all of the design is.
+ */
+export interface DecimalExtremes {
+  readonly present: Uint8Array;
+  readonly lowest: Float64Array;
+  readonly highest: Float64Array;
+  readonly scale: number | null;
+}
+
 /** A column of `length` decimals, all zero until stored. */
 export function decimalColumn(length: number): DecimalColumn {
   return { mantissa: new Float64Array(length), exponent: new Int8Array(length) };
@@ -186,9 +200,10 @@ export function centerDecimals(texts: readonly string[]): CenterDecimalsResult {
  * and, bit for bit, the same centred values as centring their texts. `textOf(row)` gives a value's text as
  * written; it is read only where exact integer arithmetic in doubles does not suffice (more than 15
  * significant digits or a scale beyond 10^22: the BigInt path), for the offset when all values are equal,
- * and for a failure's sentence. A failure's `index` is a position in `rows`.
+ * and for a failure's sentence. A failure's `index` is a position in `rows`. `extremes`, when given,
+ * is this function's first pass over `rows`, made elsewhere (see `DecimalExtremes`); it is not redone.
  */
-export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<number>, textOf: (row: number) => string): CenterDecimalsResult {
+export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<number>, textOf: (row: number) => string, extremes?: DecimalExtremes): CenterDecimalsResult {
   const n = rows.length;
   const { mantissa, exponent } = column;
   let min = Infinity;
@@ -202,7 +217,14 @@ export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<numbe
   // have exponent 0 and keep the first-seen sign as before). One division per exponent, not per value.
   const lowest = new Float64Array(45).fill(Infinity);
   const highest = new Float64Array(45).fill(-Infinity);
-  for (let i = 0; i < n; i++) {
+  if (extremes) {
+    for (let k = 0; k < 45; k++) {
+      if (extremes.present[k] === 0) continue;
+      lowest[k] = extremes.lowest[k]!;
+      highest[k] = extremes.highest[k]!;
+    }
+    scale = extremes.scale ?? Infinity;
+  } else for (let i = 0; i < n; i++) {
     const row = rows[i]!;
     const e = exponent[row]!;
     if (e !== EXPONENT_FROM_TEXT) {
