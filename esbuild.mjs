@@ -63,8 +63,8 @@ await Promise.all([
     // Node 20 offers no dynamic-import loader.
     supported: { "dynamic-import": false },
   }),
-  // The CLI's reading thread for large runs tables (server/src/cli/plain-read-worker.ts).
-  build({ ...common, entryPoints: ["server/src/cli/plain-read-worker.ts"], outfile: "dist/plain-read-worker.cjs" }),
+  // The CLI's helper thread for large files (server/src/cli/helper-worker.ts).
+  build({ ...common, entryPoints: ["server/src/cli/helper-worker.ts"], outfile: "dist/helper-worker.cjs" }),
   // The bin: a small loader that runs dist/cli-main.cjs with V8's code cache (server/src/cli/launcher.ts).
   build({ ...common, entryPoints: ["server/src/cli/launch-main.ts"], outfile: "dist/cli.cjs", banner: { js: "#!/usr/bin/env node" } }),
 ]);

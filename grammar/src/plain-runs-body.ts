@@ -44,7 +44,7 @@ export interface PlainRunsBody {
  * `scanPlainRunsBody(text.slice(at), 0, undefined, 0)` gives there (offsets from `at`; its middle row is
  * the first row after `at`), waiting for it if need be, or `null` when it is not available (then the
  * quick pass reads on by itself). The CLI's reading thread computes it while this thread lexes the first
- * half of a large file (server/src/cli/plain-read-thread.ts).
+ * half of a large file (server/src/cli/helper-thread.ts).
  */
 export interface QuickPassContinuation {
   /** The offset of a line feed in the text. */

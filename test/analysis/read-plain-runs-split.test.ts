@@ -18,7 +18,7 @@ import {
   readPlainRuns,
 } from "../../server/src/analysis/read-plain-runs.js";
 import { byteChunks } from "../../server/src/cli/byte-chunks.js";
-import { PlainReadThread } from "../../server/src/cli/plain-read-thread.js";
+import { HelperThread } from "../../server/src/cli/helper-thread.js";
 
 /** Reads the helper's part on this thread, from the text's bytes, and counts the parts it read. */
 function sameThreadHelper(text: string): PlainPartHelper & { parts: number } {
@@ -131,8 +131,8 @@ describe("plain runs tables read in two parts", () => {
     const { text, lineStarts } = body(rows);
     const shared = new SharedArrayBuffer(text.length);
     Buffer.from(shared).write(text, "latin1");
-    const script = fileURLToPath(new URL("../../server/src/cli/plain-read-worker.js", import.meta.url));
-    const thread = PlainReadThread.start(script, shared);
+    const script = fileURLToPath(new URL("../../server/src/cli/helper-worker.js", import.meta.url));
+    const thread = HelperThread.start(script, shared);
     assert.ok(thread, "the worker starts");
     try {
       let parts = 0;
@@ -152,7 +152,7 @@ describe("plain runs tables read in two parts", () => {
       const broken = text.slice(0, lineStarts[20000]!) + text.slice(lineStarts[20000]!).replace(/ a\d /, " a9 ");
       const brokenShared = new SharedArrayBuffer(broken.length);
       Buffer.from(brokenShared).write(broken, "latin1");
-      const other = PlainReadThread.start(script, brokenShared)!;
+      const other = HelperThread.start(script, brokenShared)!;
       try {
         const wait = other.start({ from: lineStarts[15000]!, to: broken.length, firstRow: 15000, endRow: rows, layout: LAYOUT, columns: other.columns(LAYOUT.kinds, rows)! });
         assert.equal(wait!(), undefined);

@@ -61,7 +61,7 @@ describe("cli: the bin's launcher and its code cache (dist/cli.cjs)", function (
     assert.ok(readFileSync(html, "utf8").includes("<svg"), "the report has its plots");
   });
 
-  it("reads a large file's table on two threads (dist/plain-read-worker.cjs) with the same output as on one", () => {
+  it("reads a large file's table on two threads (dist/helper-worker.cjs) with the same output as on one", () => {
     // About 5 MB of invented runs (a formula, not measurements), with pending values and comments.
     const rows: string[] = [];
     for (let i = 0; i < 200_000; i++) {
@@ -70,7 +70,7 @@ describe("cli: the bin's launcher and its code cache (dist/cli.cjs)", function (
     }
     const large = join(copy, "large.trial");
     writeFileSync(large, `# Invented benchmark-like file.\nresponse y unit mm\nfactor a levels a1, a2, a3, a4\nfactor b levels b1, b2, b3\nruns id a b | y\n${rows.join("")}`);
-    const debug = { TRIALBOOK_DEBUG_READ_THREAD: "1" };
+    const debug = { TRIALBOOK_DEBUG_HELPER_THREAD: "1" };
     const run = (launcher: string, verb: string) => {
       const out = spawnSync(process.execPath, [launcher, verb, ...(verb === "analyze" ? ["--format", "json"] : []), large], { encoding: "utf8", env: { ...process.env, ...debug }, maxBuffer: 1 << 28 });
       return { status: out.status, stdout: out.stdout, stderr: out.stderr };
@@ -79,8 +79,8 @@ describe("cli: the bin's launcher and its code cache (dist/cli.cjs)", function (
       const two = run("dist/cli.cjs", verb);
       // The copy has no worker bundle beside it: the same CLI on one thread.
       const one = run(join(copy, "cli.cjs"), verb);
-      assert.match(two.stderr, /^reading thread: 1 of 1 parts read, 1 quick pass taken$/m, verb);
-      assert.match(one.stderr, /^reading thread: not started$/m, verb);
+      assert.match(two.stderr, /^helper thread: 1 of 1 parts read, 1 quick pass taken$/m, verb);
+      assert.match(one.stderr, /^helper thread: not started$/m, verb);
       assert.equal(two.status, one.status, verb);
       assert.equal(two.stdout, one.stdout, verb);
     }

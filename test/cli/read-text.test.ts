@@ -11,7 +11,7 @@ import os from "node:os";
 import path from "node:path";
 import fc from "fast-check";
 import { fileURLToPath } from "node:url";
-import { PLAIN_READ_THREAD_FROM_BYTES } from "../../server/src/cli/plain-read-thread.js";
+import { HELPER_THREAD_FROM_BYTES } from "../../server/src/cli/helper-thread.js";
 import { decodeText, readTextFile, readTrialForAnalysis } from "../../server/src/cli/read-text.js";
 
 
@@ -103,10 +103,10 @@ describe("readTrialForAnalysis", () => {
     fs.rmSync(dir, { recursive: true, force: true });
   });
 
-  it("starts the reading thread only for a large all-ASCII file with the worker's script, and reads the same text", async () => {
-    const script = fileURLToPath(new URL("../../server/src/cli/plain-read-worker.js", import.meta.url));
+  it("starts the helper thread only for a large all-ASCII file with the worker's script, and reads the same text", async () => {
+    const script = fileURLToPath(new URL("../../server/src/cli/helper-worker.js", import.meta.url));
     const row = "  r1 a1 | 1.5\n";
-    const large = "runs id a | y\n" + row.repeat(Math.ceil(PLAIN_READ_THREAD_FROM_BYTES / row.length));
+    const large = "runs id a | y\n" + row.repeat(Math.ceil(HELPER_THREAD_FROM_BYTES / row.length));
     const cases = [
       { name: "large.trial", text: large, thread: true },
       { name: "large-not-ascii.trial", text: "# \u00b5m\n" + large, thread: false },

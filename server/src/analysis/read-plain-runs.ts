@@ -252,7 +252,7 @@ export interface PlainPartJob {
 
 /**
  * Another thread that can read a later part of a large plain body while this one reads the first (the
- * CLI's worker, `server/src/cli/plain-read-worker.ts`). Its text must be the same characters at the same
+ * CLI's worker, `server/src/cli/helper-worker.ts`). Its text must be the same characters at the same
  * offsets.
  */
 export interface PlainPartHelper {

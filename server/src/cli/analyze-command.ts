@@ -12,7 +12,7 @@ import { VERSION } from "../version.js";
 import { choice, parseArguments, probability } from "./arguments.js";
 import { locateDiagnostics } from "./check-command.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
-import { reportReadThread } from "./plain-read-thread.js";
+import { reportHelperThread } from "./helper-thread.js";
 import { readTrialForAnalysis } from "./read-text.js";
 
 export const ANALYZE_USAGE = `Usage: trialbook analyze FILE... [--format text|json] [--ss-type I|II|III] [--alpha A] [--confidence C]
@@ -35,7 +35,7 @@ export async function analyzeCommand(args: readonly string[], io: CliIo): Promis
   const confidence = probability(values.confidence, "confidence");
   let exit = EXIT_OK;
   for (const path of positionals) {
-    const { text, helper, engine } = await readTrialForAnalysis(resolve(io.cwd, path), io.plainReadWorker).catch(() => {
+    const { text, helper, engine } = await readTrialForAnalysis(resolve(io.cwd, path), io.helperWorker).catch(() => {
       throw new UsageError(`Cannot read '${path}'.`);
     });
     const overrides = { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) };
@@ -45,7 +45,7 @@ export async function analyzeCommand(args: readonly string[], io: CliIo): Promis
     } finally {
       helper?.close();
     }
-    reportReadThread(io.env, io.stderr, helper);
+    reportHelperThread(io.env, io.stderr, helper);
     const diagnostics = locateDiagnostics(text, analysis.diagnostics);
     io.stdout(format === "json" ? JSON.stringify(analysisJson(path, analysis, diagnostics), null, 2) + "\n" : analysisText(path, analysis, diagnostics));
     if (diagnostics.some((d) => d.severity === "error")) exit = EXIT_PROBLEMS;

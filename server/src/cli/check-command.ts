@@ -8,7 +8,7 @@ import { locateOffsets } from "./locate-offsets.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 import { type SarifDiagnostic, type SarifRegion, sarifLog } from "./sarif.js";
 import { createProgress, severityStyle, terminalStyle } from "./terminal-style.js";
-import { reportReadThread } from "./plain-read-thread.js";
+import { reportHelperThread } from "./helper-thread.js";
 import { readTrialForAnalysis, type TrialText } from "./read-text.js";
 
 export const CHECK_USAGE = `Usage: trialbook check [paths...] [--format text|json|sarif] [--max-warnings N]
@@ -77,7 +77,7 @@ export async function checkCommand(args: readonly string[], io: CliIo): Promise<
   for (const file of files) {
     let read: TrialText;
     try {
-      read = await readTrialForAnalysis(resolve(io.cwd, file), io.plainReadWorker);
+      read = await readTrialForAnalysis(resolve(io.cwd, file), io.helperWorker);
     } catch {
       throw new UsageError(`Cannot read '${file}'.`);
     }
@@ -90,7 +90,7 @@ export async function checkCommand(args: readonly string[], io: CliIo): Promise<
     } finally {
       helper?.close();
     }
-    reportReadThread(io.env, io.stderr, helper);
+    reportHelperThread(io.env, io.stderr, helper);
     progress.done();
     const located = locateDiagnostics(text, diagnostics);
     for (const d of located) counts[d.severity]++;

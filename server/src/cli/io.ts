@@ -12,10 +12,10 @@ export interface CliIo {
   /** True when stdout is an interactive terminal (colour and progress are allowed). */
   readonly isTty: boolean;
   /**
-   * The reading thread's script (dist/plain-read-worker.cjs beside the bundled CLI): with it, `analyze`
-   * and `check` read a large runs table on two threads (plain-read-thread.ts). Without it, on one.
+   * The helper thread's script (dist/helper-worker.cjs beside the bundled CLI): with it, `analyze`
+   * and `check` read a large runs table on two threads (helper-thread.ts). Without it, on one.
    */
-  readonly plainReadWorker?: string;
+  readonly helperWorker?: string;
 }
 
 /** Exit codes, documented in the README: 0 clean, 1 problems found, 2 usage error. */

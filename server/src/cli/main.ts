@@ -15,8 +15,8 @@ void runCli(process.argv.slice(2), {
   readStdin,
   env: process.env,
   isTty: process.stdout.isTTY === true,
-  // The bundle's own directory (dist/): the reading thread's bundle is built beside it.
-  plainReadWorker: join(__dirname, "plain-read-worker.cjs"),
+  // The bundle's own directory (dist/): the helper thread's bundle is built beside it.
+  helperWorker: join(__dirname, "helper-worker.cjs"),
 }).then((code) => {
   process.exitCode = code;
   // Exit as soon as the output is flushed rather than when the event loop runs dry: at that point Node 20

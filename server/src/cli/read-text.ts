@@ -16,7 +16,7 @@ import { open } from "node:fs/promises";
 import { prepareParsing } from "../../../grammar/src/parse.js";
 import { Char } from "../../../grammar/src/char-codes.js";
 import type { EngineOptions } from "../analysis/engine-options.js";
-import { PLAIN_READ_THREAD_FROM_BYTES, PlainReadThread } from "./plain-read-thread.js";
+import { HELPER_THREAD_FROM_BYTES, HelperThread } from "./helper-thread.js";
 
 /** The text of a file's bytes: a Latin-1 copy when all are ASCII, else UTF-8 decoding (`Buffer.toString`). */
 export function decodeText(bytes: Buffer, ascii = isAscii(bytes)): string {
@@ -40,24 +40,24 @@ export async function readTrialFile(path: string): Promise<string> {
 export interface TrialText {
   readonly text: string;
   /** `close` it when done. */
-  readonly helper?: PlainReadThread;
+  readonly helper?: HelperThread;
   /** What the engine is given (`engineOptions`). */
   readonly engine: EngineOptions;
 }
 
 /**
- * `readTrialFile`, and for a file of `PLAIN_READ_THREAD_FROM_BYTES` or more, with `workerScript`, its
- * bytes are read into shared memory and the reading thread (plain-read-thread.ts) is started on them
+ * `readTrialFile`, and for a file of `HELPER_THREAD_FROM_BYTES` or more, with `workerScript`, its
+ * bytes are read into shared memory and the helper thread (helper-thread.ts) is started on them
  * while they are read. The thread is kept only when every byte is ASCII, so that the text's offsets are
  * the bytes' offsets (`decodeText` then copies them as Latin-1).
  */
 export async function readTrialForAnalysis(path: string, workerScript: string | undefined): Promise<TrialText> {
-  let thread: PlainReadThread | undefined;
+  let thread: HelperThread | undefined;
   let shared: SharedArrayBuffer | undefined;
   const allocate = (size: number): Buffer => {
-    if (workerScript === undefined || size < PLAIN_READ_THREAD_FROM_BYTES) return Buffer.allocUnsafe(size);
+    if (workerScript === undefined || size < HELPER_THREAD_FROM_BYTES) return Buffer.allocUnsafe(size);
     shared = new SharedArrayBuffer(size);
-    thread = PlainReadThread.start(workerScript, shared);
+    thread = HelperThread.start(workerScript, shared);
     return Buffer.from(shared);
   };
   try {
@@ -76,7 +76,7 @@ export async function readTrialForAnalysis(path: string, workerScript: string | 
     if (!thread) return { text, engine: {} };
     return { text, helper: thread, engine: { plainPartHelper: thread, ...(continuation ? { quickPassContinuation: continuation } : {}) } };
   } catch (error) {
-    (thread as PlainReadThread | undefined)?.close();
+    (thread as HelperThread | undefined)?.close();
     throw error;
   }
 }
@@ -86,7 +86,7 @@ export async function readTrialForAnalysis(path: string, workerScript: string | 
  * whole size: `readFile` reads in 512 KiB pieces, one thread-pool round trip each (about 90 ms for a
  * 22 MB file here), and the caller's work meanwhile (building the parser) finished long before. Anything
  * else (empty, a pipe, a file that grew) is read on to its end as `readFile` would. `allocate` gives the
- * buffer for a regular file's size (shared memory for the reading thread). `meanwhile` runs once, after
+ * buffer for a regular file's size (shared memory for the helper thread). `meanwhile` runs once, after
  * the first read request is on its way (the caller's own work then overlaps the read: building the
  * parser took about as long as reading a 24 MB file, and ran before the read when called after the open).
  */

@@ -1,4 +1,4 @@
-/** What the CLI's main thread and its reading thread (plain-read-worker.ts) share and send each other. */
+/** What the CLI's main thread and its helper thread (helper-worker.ts) share and send each other. */
 import type { PlainRunsBody } from "../../../grammar/src/plain-runs-body.js";
 import type { PlainPart, PlainPartJob } from "../analysis/read-plain-runs.js";
 
@@ -12,7 +12,7 @@ export const enum Signal {
 }
 
 /** Given to the worker when it starts (`workerData`). */
-export interface PlainReadStart {
+export interface HelperStart {
   /** The file's bytes (all ASCII: byte i is the text's character i). */
   readonly bytes: SharedArrayBuffer;
   /** `Signal` slots, in shared memory. */
@@ -22,11 +22,11 @@ export interface PlainReadStart {
 }
 
 /** Read a part of a plain runs table (`readPlainPart`), or make the quick pass's facts from a line feed on. */
-export type PlainReadJobMessage =
+export type HelperJobMessage =
   | { readonly kind: "part"; readonly sequence: number; readonly job: PlainPartJob }
   | { readonly kind: "tail"; readonly sequence: number; readonly at: number };
 
-export interface PlainReadAnswer {
+export interface HelperAnswer {
   readonly sequence: number;
   /** A "part" job's part; absent when it was declined. */
   readonly part?: PlainPart;

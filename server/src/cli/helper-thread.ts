@@ -1,6 +1,6 @@
 /**
  * The CLI's second thread for large files: while the main thread reads the first half of a large plain
- * runs table, a worker (plain-read-worker.ts) reads the second half from the file's bytes in shared memory
+ * runs table, a worker (helper-worker.ts) reads the second half from the file's bytes in shared memory
  * into the same shared columns (`PlainPartHelper` in read-plain-runs.ts). The main thread then waits for
  * it synchronously (`Atomics.wait`), so the engine stays a plain synchronous function.
  *
@@ -14,19 +14,19 @@ import { existsSync } from "node:fs";
 import { MessageChannel, type MessagePort, receiveMessageOnPort, Worker } from "node:worker_threads";
 import { type PlainColumn, type PlainColumns, plainColumns, type PlainPart, type PlainPartHelper, type PlainPartJob } from "../analysis/read-plain-runs.js";
 import type { PlainRunsBody, QuickPassContinuation } from "../../../grammar/src/plain-runs-body.js";
-import { type PlainReadAnswer, type PlainReadJobMessage, type PlainReadStart, Signal } from "./plain-read-protocol.js";
+import { type HelperAnswer, type HelperJobMessage, type HelperStart, Signal } from "./helper-protocol.js";
 
 /** Files from this size on get the thread: below it, a table reads in a few milliseconds. */
-export const PLAIN_READ_THREAD_FROM_BYTES = 4 * 1024 * 1024;
+export const HELPER_THREAD_FROM_BYTES = 4 * 1024 * 1024;
 /** A healthy worker runs within tens of milliseconds; one that has not after this long is not used. */
 const READY_TIMEOUT_MS = 5_000;
 /** The wait for an answer: generous (a part reads at about 0.1 µs a byte here), then the general path. */
 const ANSWER_TIMEOUT_MS = 30_000;
 
-export class PlainReadThread implements PlainPartHelper {
+export class HelperThread implements PlainPartHelper {
   private sequence = 0;
   private broken = false;
-  /** Parts asked for, parts the worker read, and its quick passes taken (for `TRIALBOOK_DEBUG_READ_THREAD`). */
+  /** Parts asked for, parts the worker read, and its quick passes taken (for `TRIALBOOK_DEBUG_HELPER_THREAD`). */
   asked = 0;
   read = 0;
   tails = 0;
@@ -38,16 +38,16 @@ export class PlainReadThread implements PlainPartHelper {
   ) {}
 
   /** Starts the worker `script` on `bytes`; undefined when it cannot be started (then nothing changes but speed). */
-  static start(script: string, bytes: SharedArrayBuffer): PlainReadThread | undefined {
+  static start(script: string, bytes: SharedArrayBuffer): HelperThread | undefined {
     if (!existsSync(script)) return undefined;
     try {
       const signal = new Int32Array(new SharedArrayBuffer(Signal.Length * 4));
       const { port1, port2 } = new MessageChannel();
-      const start: PlainReadStart = { bytes, signal, port: port2 };
+      const start: HelperStart = { bytes, signal, port: port2 };
       const worker = new Worker(script, { workerData: start, transferList: [port2] });
       // It must not keep the process alive, and a failure of it only costs speed.
       worker.unref();
-      const thread = new PlainReadThread(worker, port1, signal);
+      const thread = new HelperThread(worker, port1, signal);
       worker.on("error", () => {
         thread.broken = true;
       });
@@ -65,7 +65,7 @@ export class PlainReadThread implements PlainPartHelper {
     if (this.broken) return undefined;
     const sequence = ++this.sequence;
     this.asked++;
-    this.port.postMessage({ kind: "part", sequence, job } satisfies PlainReadJobMessage);
+    this.port.postMessage({ kind: "part", sequence, job } satisfies HelperJobMessage);
     return () => {
       const part = this.answer(sequence)?.part;
       if (part) this.read++;
@@ -81,7 +81,7 @@ export class PlainReadThread implements PlainPartHelper {
   continuation(at: number, length: number): QuickPassContinuation | undefined {
     if (this.broken) return undefined;
     const sequence = ++this.sequence;
-    this.port.postMessage({ kind: "tail", sequence, at } satisfies PlainReadJobMessage);
+    this.port.postMessage({ kind: "tail", sequence, at } satisfies HelperJobMessage);
     let facts: PlainRunsBody | undefined | null;
     let waited = false;
     return {
@@ -109,7 +109,7 @@ export class PlainReadThread implements PlainPartHelper {
    * (then its part is declined and the whole table takes the general path; its tail is read here) and
    * it is not used again.
    */
-  private answer(sequence: number): PlainReadAnswer | undefined {
+  private answer(sequence: number): HelperAnswer | undefined {
     if (Atomics.load(this.signal, Signal.Ready) !== 1) Atomics.wait(this.signal, Signal.Ready, 0, READY_TIMEOUT_MS);
     if (Atomics.load(this.signal, Signal.Ready) !== 1) {
       this.broken = true;
@@ -119,7 +119,7 @@ export class PlainReadThread implements PlainPartHelper {
     for (;;) {
       const received = receiveMessageOnPort(this.port);
       if (received) {
-        const answer = received.message as PlainReadAnswer;
+        const answer = received.message as HelperAnswer;
         if (answer.sequence !== sequence) continue; // a late answer to a job given up on
         if (answer.error !== undefined) this.broken = true;
         return answer;
@@ -137,8 +137,8 @@ export class PlainReadThread implements PlainPartHelper {
   }
 }
 
-/** With `TRIALBOOK_DEBUG_READ_THREAD=1`: says on stderr whether a file's table was read on two threads. */
-export function reportReadThread(env: Readonly<Record<string, string | undefined>>, stderr: (text: string) => void, thread: PlainReadThread | undefined): void {
-  if (env.TRIALBOOK_DEBUG_READ_THREAD !== "1") return;
-  stderr(`reading thread: ${thread ? `${thread.read} of ${thread.asked} parts read, ${thread.tails} quick pass taken` : "not started"}\n`);
+/** With `TRIALBOOK_DEBUG_HELPER_THREAD=1`: says on stderr whether a file's table was read on two threads. */
+export function reportHelperThread(env: Readonly<Record<string, string | undefined>>, stderr: (text: string) => void, thread: HelperThread | undefined): void {
+  if (env.TRIALBOOK_DEBUG_HELPER_THREAD !== "1") return;
+  stderr(`helper thread: ${thread ? `${thread.read} of ${thread.asked} parts read, ${thread.tails} quick pass taken` : "not started"}\n`);
 }

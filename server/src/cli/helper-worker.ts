@@ -1,6 +1,6 @@
 /**
- * The CLI's reading thread (bundled to dist/plain-read-worker.cjs), working on the file's bytes in shared
- * memory while the main thread works on the first half (plain-read-thread.ts): the quick pass's facts
+ * The CLI's helper thread (bundled to dist/helper-worker.cjs), working on the file's bytes in shared
+ * memory while the main thread works on the first half (helper-thread.ts): the quick pass's facts
  * of the text's second half ("tail", while the main thread lexes), then the later half of a large plain
  * runs table (`readPlainPart`, "part") into the same shared columns. It holds no state between jobs.
  */
@@ -8,15 +8,15 @@ import { workerData } from "node:worker_threads";
 import { scanPlainRunsBody } from "../../../grammar/src/plain-runs-body.js";
 import { readPlainPart } from "../analysis/read-plain-runs.js";
 import { byteChunks } from "./byte-chunks.js";
-import { type PlainReadAnswer, type PlainReadJobMessage, type PlainReadStart, Signal } from "./plain-read-protocol.js";
+import { type HelperAnswer, type HelperJobMessage, type HelperStart, Signal } from "./helper-protocol.js";
 
-const { bytes, signal, port } = workerData as PlainReadStart;
+const { bytes, signal, port } = workerData as HelperStart;
 // The main thread's text is the Latin-1 copy of these bytes, all ASCII: the same characters at the same offsets.
 const load = byteChunks(new Uint8Array(bytes));
 
-port.on("message", (message: PlainReadJobMessage) => {
+port.on("message", (message: HelperJobMessage) => {
   const sequence = message.sequence;
-  let answer: PlainReadAnswer;
+  let answer: HelperAnswer;
   try {
     if (message.kind === "tail") {
       // The text from the line feed at `at` on: its facts as the quick pass would find them there, with
