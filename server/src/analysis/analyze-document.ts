@@ -58,7 +58,7 @@ export function analyzeParsed(file: TrialFile, defaults: AnalysisSettings = {}, 
   // A file with errors in its design still gets an analysis of what could be read: the user sees both.
   const termSpans = modelTermSpans(file);
   design.responses.forEach((response, k) => {
-    const { result, diagnostics: found, context } = analyzeResponse(design, k, { response: response.span, terms: termSpans });
+    const { result, diagnostics: found, context } = analyzeResponse(design, k, { response: response.span, terms: termSpans }, engine);
     const firstOfResponse = diagnostics.length;
     diagnostics.push(...found);
     let extended = result;

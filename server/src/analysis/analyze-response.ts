@@ -7,6 +7,8 @@ import type { LinearModelInput, LinearModelResult, ModelFactor, ModelTerm } from
 import { type Design, type DesignRuns, type DesignTerm, ValueStatus } from "./design.js";
 import { covariateText, responseSpan, responseText, runId } from "./design-runs.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
+import type { EngineOptions } from "./engine-options.js";
+import { startVarianceTests } from "./early-variance-tests.js";
 import type { AdjustedLevelMean, AnovaRow, LevelMean, ResponseAnalysis, RunResidual } from "./results.js";
 
 /** Where analysis diagnostics about a term or response point: the model term if written, else the response. */
@@ -52,7 +54,7 @@ export interface ResponseContext {
  * offset, fits the design's linear model and converts the fit into the plain result of the JSON contract.
  * Degenerate situations become diagnostics; the result then carries `null`s or empty tables.
  */
-export function analyzeResponse(design: Design, responseIndex: number, anchors: AnalysisAnchors): { result: ResponseAnalysis; diagnostics: Diagnostic[]; context?: ResponseContext } {
+export function analyzeResponse(design: Design, responseIndex: number, anchors: AnalysisAnchors, engine: EngineOptions = {}): { result: ResponseAnalysis; diagnostics: Diagnostic[]; context?: ResponseContext } {
   const response = design.responses[responseIndex]!;
   const diagnostics: Diagnostic[] = [];
   const { runs, settings } = design;
@@ -145,7 +147,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   // arithmetic in doubles does not suffice (see centerDecimalColumn). With the reader's tallies, the runs
   // selected are exactly those where this response is measured, over which the reader found the extremes.
   const extremes = runs.tallies?.responseExtremes[responseIndex];
-  const centred = centerDecimalColumn(runs.responseValues[responseIndex]!, selected, (r) => responseText(runs, responseIndex, r), extremes);
+  const centred = centerDecimalColumn(runs.responseValues[responseIndex]!, selected, (r) => responseText(runs, responseIndex, r), extremes, engine.sharedMemory);
   if (!centred.ok) {
     const r = selected[centred.index]!;
     diagnostics.push(diagnostic("value-out-of-range", responseSpan(runs, responseIndex, r) ?? anchors.response, `This value of '${response.name}' cannot be analysed: ${centred.reason}`));
@@ -177,6 +179,11 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
       );
     } else terms.push(term);
   }
+
+  // A large file's variance tests over the cells of the fixed factors in the model start on the engine's
+  // other thread now, and run there while the model is fitted here (early-variance-tests.ts).
+  const fixedInModel = [...new Set(terms.flatMap((t) => t.variables.flatMap((v) => (v.kind === "factor" && design.factors[v.index]!.role === "fixed" ? [v.index] : []))))].sort((a, b) => a - b);
+  startVarianceTests(engine, centred.values, fixedInModel, fixedInModel.map((f) => compact.get(f)!));
 
   const factorSlot = new Map(usedFactors.map((f, i) => [f, i] as const));
   const covariateSlot = new Map(usedCovariates.map((c, i) => [c, i] as const));

@@ -1,6 +1,8 @@
 /** What the CLI's main thread and its helper thread (helper-worker.ts) share and send each other. */
 import type { PlainRunsBody } from "../../../grammar/src/plain-runs-body.js";
+import type { VarianceTestsJob } from "../analysis/engine-options.js";
 import type { PlainPart, PlainPartJob } from "../analysis/read-plain-runs.js";
+import type { LeveneTests } from "../stats/checks/levene.js";
 
 /** Slots of the shared signal array. */
 export const enum Signal {
@@ -21,10 +23,14 @@ export interface HelperStart {
   readonly port: import("node:worker_threads").MessagePort;
 }
 
-/** Read a part of a plain runs table (`readPlainPart`), or make the quick pass's facts from a line feed on. */
+/**
+ * Read a part of a plain runs table (`readPlainPart`), make the quick pass's facts from a line feed on, or
+ * run the variance tests (`leveneTests`).
+ */
 export type HelperJobMessage =
   | { readonly kind: "part"; readonly sequence: number; readonly job: PlainPartJob }
-  | { readonly kind: "tail"; readonly sequence: number; readonly at: number };
+  | { readonly kind: "tail"; readonly sequence: number; readonly at: number }
+  | { readonly kind: "variance"; readonly sequence: number; readonly job: VarianceTestsJob };
 
 export interface HelperAnswer {
   readonly sequence: number;
@@ -32,6 +38,8 @@ export interface HelperAnswer {
   readonly part?: PlainPart;
   /** A "tail" job's facts; null when the text from there is not plain. */
   readonly facts?: PlainRunsBody | null;
+  /** A "variance" job's tests. */
+  readonly tests?: LeveneTests;
   /** Set when the job failed (a bug): the main thread then does the work itself. */
   readonly error?: string;
 }

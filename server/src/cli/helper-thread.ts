@@ -12,6 +12,8 @@
  */
 import { existsSync } from "node:fs";
 import { MessageChannel, type MessagePort, receiveMessageOnPort, Worker } from "node:worker_threads";
+import type { VarianceTestsHelper, VarianceTestsJob } from "../analysis/engine-options.js";
+import type { LeveneTests } from "../stats/checks/levene.js";
 import { type PlainColumn, type PlainColumns, plainColumns, type PlainPart, type PlainPartHelper, type PlainPartJob } from "../analysis/read-plain-runs.js";
 import type { PlainRunsBody, QuickPassContinuation } from "../../../grammar/src/plain-runs-body.js";
 import { type HelperAnswer, type HelperJobMessage, type HelperStart, Signal } from "./helper-protocol.js";
@@ -23,13 +25,14 @@ const READY_TIMEOUT_MS = 5_000;
 /** The wait for an answer: generous (a part reads at about 0.1 µs a byte here), then the general path. */
 const ANSWER_TIMEOUT_MS = 30_000;
 
-export class HelperThread implements PlainPartHelper {
+export class HelperThread implements PlainPartHelper, VarianceTestsHelper {
   private sequence = 0;
   private broken = false;
   /** Parts asked for, parts the worker read, and its quick passes taken (for `TRIALBOOK_DEBUG_HELPER_THREAD`). */
   asked = 0;
   read = 0;
   tails = 0;
+  variance = 0;
 
   private constructor(
     private readonly worker: Worker,
@@ -99,6 +102,20 @@ export class HelperThread implements PlainPartHelper {
     };
   }
 
+  /** Shared memory, for arrays the worker will read. */
+  readonly sharedMemory = (bytes: number): SharedArrayBuffer => new SharedArrayBuffer(bytes);
+
+  startVarianceTests(job: VarianceTestsJob): (() => LeveneTests | undefined) | undefined {
+    if (this.broken) return undefined;
+    const sequence = ++this.sequence;
+    this.port.postMessage({ kind: "variance", sequence, job } satisfies HelperJobMessage);
+    return () => {
+      const tests = this.answer(sequence)?.tests;
+      if (tests) this.variance++;
+      return tests;
+    };
+  }
+
   /** Stops the worker (a command calls this when it is done with its files). */
   close(): void {
     void this.worker.terminate();
@@ -140,5 +157,5 @@ export class HelperThread implements PlainPartHelper {
 /** With `TRIALBOOK_DEBUG_HELPER_THREAD=1`: says on stderr whether a file's table was read on two threads. */
 export function reportHelperThread(env: Readonly<Record<string, string | undefined>>, stderr: (text: string) => void, thread: HelperThread | undefined): void {
   if (env.TRIALBOOK_DEBUG_HELPER_THREAD !== "1") return;
-  stderr(`helper thread: ${thread ? `${thread.read} of ${thread.asked} parts read, ${thread.tails} quick pass taken` : "not started"}\n`);
+  stderr(`helper thread: ${thread ? `${thread.read} of ${thread.asked} parts read, ${thread.tails} quick pass taken, ${thread.variance} variance tests` : "not started"}\n`);
 }

@@ -7,6 +7,7 @@
 import { workerData } from "node:worker_threads";
 import { scanPlainRunsBody } from "../../../grammar/src/plain-runs-body.js";
 import { readPlainPart } from "../analysis/read-plain-runs.js";
+import { leveneTests } from "../stats/checks/levene.js";
 import { byteChunks } from "./byte-chunks.js";
 import { type HelperAnswer, type HelperJobMessage, type HelperStart, Signal } from "./helper-protocol.js";
 
@@ -23,6 +24,10 @@ port.on("message", (message: HelperJobMessage) => {
       // the first row after `at` as the middle row (QuickPassContinuation in plain-runs-body.ts).
       const tail = Buffer.from(bytes, message.at).toString("latin1");
       answer = { sequence, facts: scanPlainRunsBody(tail, 0, tail.length, 0) ?? null };
+    } else if (message.kind === "variance") {
+      // The same function on the same arrays (shared memory) as the main thread would call.
+      const { y, codes, count } = message.job;
+      answer = { sequence, tests: leveneTests(y, codes, count) };
     } else {
       const part = readPlainPart(load, message.job);
       answer = part ? { sequence, part } : { sequence };

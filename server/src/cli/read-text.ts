@@ -74,7 +74,8 @@ export async function readTrialForAnalysis(path: string, workerScript: string | 
     const continuation = thread && middle >= 0 ? thread.continuation(middle, bytes.length) : undefined;
     const text = decodeText(bytes, ascii);
     if (!thread) return { text, engine: {} };
-    return { text, helper: thread, engine: { plainPartHelper: thread, ...(continuation ? { quickPassContinuation: continuation } : {}) } };
+    const engine = { plainPartHelper: thread, sharedMemory: thread.sharedMemory, varianceTests: thread, ...(continuation ? { quickPassContinuation: continuation } : {}) };
+    return { text, helper: thread, engine };
   } catch (error) {
     (thread as HelperThread | undefined)?.close();
     throw error;

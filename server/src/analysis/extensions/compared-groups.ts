@@ -1,5 +1,6 @@
 import type { ResponseContext } from "../analyze-response.js";
 import { type GroupSummary, summarizeGroupings } from "../../stats/comparisons/group-summary.js";
+import { crossedCodes, startedCrossedCodes } from "../early-variance-tests.js";
 
 /** The groups of one compared term: a factor's levels or an interaction's cells, with labels and summaries. */
 export interface ComparedGroups {
@@ -102,16 +103,8 @@ function groupShape(context: ResponseContext, factors: readonly number[]): Omit<
   const count = sizes.reduce((a, b) => a * b, 1);
   // A single factor's groups are its compact codes (shared, never written); a crossing gets mixed-radix
   // codes, one factor at a time over all observations (no closure per observation).
-  let codes: Int32Array;
-  if (parts.length === 1) codes = parts[0]!.codes;
-  else {
-    codes = parts[0]!.codes.slice();
-    for (let j = 1; j < parts.length; j++) {
-      const size = sizes[j]!;
-      const own = parts[j]!.codes;
-      for (let i = 0; i < codes.length; i++) codes[i] = codes[i]! * size + own[i]!;
-    }
-  }
+  // Made already when the variance tests of these cells were started on another thread.
+  const codes = startedCrossedCodes(context.y, factors) ?? crossedCodes(parts.map((p) => p!.codes), sizes);
   const labels: string[] = [];
   const declared: number[] = [];
   for (let c = 0; c < count; c++) {

@@ -202,8 +202,15 @@ export function centerDecimals(texts: readonly string[]): CenterDecimalsResult {
  * significant digits or a scale beyond 10^22: the BigInt path), for the offset when all values are equal,
  * and for a failure's sentence. A failure's `index` is a position in `rows`. `extremes`, when given,
  * is this function's first pass over `rows`, made elsewhere (see `DecimalExtremes`); it is not redone.
+ * `memory` gives the centred values' buffer (shared memory when another thread will read them).
  */
-export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<number>, textOf: (row: number) => string, extremes?: DecimalExtremes): CenterDecimalsResult {
+export function centerDecimalColumn(
+  column: DecimalColumn,
+  rows: ArrayLike<number>,
+  textOf: (row: number) => string,
+  extremes?: DecimalExtremes,
+  memory: (bytes: number) => ArrayBufferLike = (bytes) => new ArrayBuffer(bytes),
+): CenterDecimalsResult {
   const n = rows.length;
   const { mantissa, exponent } = column;
   let min = Infinity;
@@ -258,7 +265,7 @@ export function centerDecimalColumn(column: DecimalColumn, rows: ArrayLike<numbe
   const offsetScaled = scaledNumber(offset.negative, offset.mantissa, offset.digits.length, offset.exponent - scale);
   const fastScale = Math.abs(scale) <= 22 && !Number.isNaN(offsetScaled);
   const power = fastScale ? EXACT_POWERS_OF_TEN[Math.abs(scale)] : NaN;
-  const values = new Float64Array(n);
+  const values = new Float64Array(memory(n * 8));
   let offsetBig: bigint | undefined;
   let largest = 0;
   for (let i = 0; i < n; i++) {
