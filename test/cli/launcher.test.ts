@@ -79,7 +79,7 @@ describe("cli: the bin's launcher and its code cache (dist/cli.cjs)", function (
       const two = run("dist/cli.cjs", verb);
       // The copy has no worker bundle beside it: the same CLI on one thread.
       const one = run(join(copy, "cli.cjs"), verb);
-      assert.match(two.stderr, /^helper thread: 1 of 1 parts read, 1 quick pass taken, 1 variance tests$/m, verb);
+      assert.match(two.stderr, /^helper thread: 1 of 1 parts read, 1 quick pass taken, 1 variance tests, 1 level means$/m, verb);
       assert.match(one.stderr, /^helper thread: not started$/m, verb);
       assert.equal(two.status, one.status, verb);
       assert.equal(two.stdout, one.stdout, verb);

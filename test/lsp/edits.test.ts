@@ -108,6 +108,10 @@ runs  id   temp  dwell | gloss
     it("continues the id pattern", () => {
       assert.deepEqual(newRunIds(["r01", "r02", "r09"], 2), ["r10", "r11"]);
       assert.deepEqual(newRunIds(["A-7"], 1), ["A-8"]);
+      // Numbers beyond what a double holds exactly, or at all (found by the fuzzer: "rInfinity").
+      assert.deepEqual(newRunIds(["r9007199254740993"], 2), ["r9007199254740994", "r9007199254740995"]);
+      const nines = "9".repeat(400);
+      assert.deepEqual(newRunIds([`r${nines}`], 1), [`r1${"0".repeat(400)}`]);
     });
   });
 

@@ -2,13 +2,13 @@ import type { Span } from "../../../grammar/src/ast.js";
 import { centerDecimalColumn, decimalValue } from "../stats/decimal/center-decimals.js";
 import { fitLinearModel } from "../stats/linear-model/fit-linear-model.js";
 import type { SummarizedGroups } from "../stats/comparisons/group-summary.js";
-import { groupStatisticsOfGroupings } from "../stats/linear-model/group-means.js";
+import { type GroupAccumulators, type Grouping, groupStatisticsOfGroupings } from "../stats/linear-model/group-means.js";
 import type { LinearModelInput, LinearModelResult, ModelFactor, ModelTerm } from "../stats/linear-model/types.js";
 import { type Design, type DesignRuns, type DesignTerm, ValueStatus } from "./design.js";
 import { covariateText, responseSpan, responseText, runId } from "./design-runs.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
 import type { EngineOptions } from "./engine-options.js";
-import { startVarianceTests } from "./early-variance-tests.js";
+import { startGroupAccumulators, startVarianceTests } from "./early-analysis.js";
 import type { AdjustedLevelMean, AnovaRow, LevelMean, ResponseAnalysis, RunResidual } from "./results.js";
 
 /** Where analysis diagnostics about a term or response point: the model term if written, else the response. */
@@ -72,6 +72,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   // is made on first read only.
   const count = runs.count;
   const excluded = runs.excluded;
+  const memory = engine.sharedMemory ?? ((bytes: number) => new ArrayBuffer(bytes));
   const factorLevels = allFactors.map((f) => runs.levels[f]!);
   const covariateKnown = usedCovariates.map((c) => runs.covariateStatus[c]!);
   // Runs left out are marked variable by variable (one tight loop per array), so the pass below tests one
@@ -96,7 +97,8 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     declaredCodes = factorLevels.slice();
   } else {
     const roomForRows = new Int32Array(count);
-    const roomForCodes = allFactors.map(() => new Int32Array(count));
+    // In the engine's shared memory when it has some: the level means may be made on another thread.
+    const roomForCodes = allFactors.map(() => new Int32Array(memory(count * 4)));
     let used = 0;
     if (allFactors.length === 2) {
       // The common two-factor design with its arrays in locals.
@@ -166,7 +168,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   // Level codes are compacted to the levels that occur among the selected runs, so that a declared but
   // unused level does not show up as an aliased column.
   const compact = new Map<number, { codes: Int32Array; levels: number[] }>();
-  allFactors.forEach((f, q) => compact.set(f, compactCodes(declaredCodes[q]!, design.factors[f]!.levels.length, shared)));
+  allFactors.forEach((f, q) => compact.set(f, compactCodes(declaredCodes[q]!, design.factors[f]!.levels.length, shared, memory)));
 
   // Terms involving a factor seen at a single level cannot be estimated: drop them and say so.
   const terms: DesignTerm[] = [];
@@ -180,8 +182,11 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     } else terms.push(term);
   }
 
-  // A large file's variance tests over the cells of the fixed factors in the model start on the engine's
-  // other thread now, and run there while the model is fitted here (early-variance-tests.ts).
+  // For a large file, the level means' passes and the variance tests over the cells of the fixed factors in
+  // the model start on the engine's other thread now, and run there while the model is fitted here
+  // (early-analysis.ts).
+  const groupings = meanGroupings(design, meanFactors, compact);
+  const accumulating = startGroupAccumulators(engine, centred.values, groupings);
   const fixedInModel = [...new Set(terms.flatMap((t) => t.variables.flatMap((v) => (v.kind === "factor" && design.factors[v.index]!.role === "fixed" ? [v.index] : []))))].sort((a, b) => a - b);
   startVarianceTests(engine, centred.values, fixedInModel, fixedInModel.map((f) => compact.get(f)!));
 
@@ -211,7 +216,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   const fit = fitLinearModel({ y: centred.values, factors: modelFactors, covariates, terms: modelTerms, ssType: settings.ssType });
   if (!fit.ok) {
     diagnostics.push(diagnostic(fit.code === "zero-variance" ? "zero-variance" : fit.code === "single-observation" ? "single-observation" : "no-data", anchors.response, `'${response.name}' cannot be analysed. ${fit.reason}`));
-    return { result: { ...empty, means: rawMeans(design, meanFactors, compact, centred.values, offset, null, settings.confidence).means }, diagnostics };
+    return { result: { ...empty, means: rawMeans(groupings, centred.values, offset, null, settings.confidence, accumulating?.()).means }, diagnostics };
   }
 
   for (const a of fit.aliased) {
@@ -236,7 +241,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
     { source: "Total", df: fit.total.df, ss: fit.total.ss },
   ];
   const pooled = { ms: fit.residual.ms, df: fit.residual.df };
-  const { means, groups: knownGroups } = rawMeans(design, meanFactors, compact, centred.values, offset, pooled, settings.confidence);
+  const { means, groups: knownGroups } = rawMeans(groupings, centred.values, offset, pooled, settings.confidence, accumulating?.());
   for (const m of means) {
     if (m.n !== 1 || m.term.includes(" x ")) continue;
     const factor = design.factors.find((f) => f.name === m.term);
@@ -349,7 +354,7 @@ function copyProperties(out: Record<string, unknown>, from: object): void {
  * compacted to the levels that occur among them (in declared order), and the declared level of each code.
  * One pass marks the levels present; a second pass renumbers only when some declared level is absent.
  */
-function compactCodes(codes: Int32Array, levelCount: number, shared: boolean): { codes: Int32Array; levels: number[] } {
+function compactCodes(codes: Int32Array, levelCount: number, shared: boolean, memory: (bytes: number) => ArrayBufferLike): { codes: Int32Array; levels: number[] } {
   const n = codes.length;
   const seen = new Uint8Array(levelCount);
   let distinct = 0;
@@ -364,7 +369,7 @@ function compactCodes(codes: Int32Array, levelCount: number, shared: boolean): {
   const map = new Int32Array(levelCount);
   for (let l = 0; l < levelCount; l++) if (seen[l] === 1) map[l] = levels.push(l) - 1;
   if (levels.length === levelCount) return { codes, levels };
-  const out = shared ? new Int32Array(n) : codes;
+  const out = shared ? new Int32Array(memory(n * 4)) : codes;
   for (let i = 0; i < n; i++) out[i] = map[codes[i]!]!;
   return { codes: out, levels };
 }
@@ -379,21 +384,20 @@ function uniqueIndices(terms: readonly DesignTerm[], kind: "factor" | "covariate
  * Raw level means for every fixed and block factor, and cell means for every pair of fixed factors, with
  * intervals from the model's pooled residual mean square.
  */
-function rawMeans(
-  design: Design,
-  meanFactors: readonly number[],
-  compact: ReadonlyMap<number, { codes: Int32Array; levels: number[] }>,
-  y: Float64Array,
-  offset: number,
-  pooled: { ms: number | null; df: number } | null,
-  confidence: number,
-): { means: LevelMean[]; groups: Map<string, SummarizedGroups> } {
-  const error = pooled ?? { ms: null, df: 0 };
-  // Every grouping is collected first and summarised in one fused pair of passes over y
-  // (groupStatisticsOfGroupings, bit-identical to one groupMeans per grouping), then emitted in this order.
-  // The same passes give the comparisons' group summaries, handed on under `key`, the grouping's factor
-  // list as the comparisons name it (ResponseContext.knownGroups).
-  const groupings: { key: string; term: string; labels: readonly string[]; codes: Int32Array; groupCount: number; within?: { codes: Int32Array; levelCount: number } }[] = [];
+/** A grouping of the level means, with the names it is shown and handed on under. */
+interface MeanGrouping extends Grouping {
+  /** The grouping's factor list as the comparisons name it ("0", "0,2"). */
+  readonly key: string;
+  readonly term: string;
+  readonly labels: readonly string[];
+}
+
+/**
+ * The groupings of the level means: each fixed or block factor's levels, then the cells of each pair of
+ * fixed factors (their codes formed as the observations are read, no third array of codes).
+ */
+function meanGroupings(design: Design, meanFactors: readonly number[], compact: ReadonlyMap<number, { codes: Int32Array; levels: number[] }>): MeanGrouping[] {
+  const groupings: MeanGrouping[] = [];
   for (const f of meanFactors) {
     const c = compact.get(f)!;
     const labels = c.levels.map((l) => design.factors[f]!.levels[l]!.name);
@@ -417,7 +421,23 @@ function rawMeans(
       });
     }
   }
-  const { means: summaries, summarized } = groupStatisticsOfGroupings(y, groupings, error, confidence);
+  return groupings;
+}
+
+function rawMeans(
+  groupings: readonly MeanGrouping[],
+  y: Float64Array,
+  offset: number,
+  pooled: { ms: number | null; df: number } | null,
+  confidence: number,
+  accumulated?: GroupAccumulators,
+): { means: LevelMean[]; groups: Map<string, SummarizedGroups> } {
+  const error = pooled ?? { ms: null, df: 0 };
+  // Every grouping is summarised in one fused pair of passes over y (groupStatisticsOfGroupings,
+  // bit-identical to one groupMeans per grouping; `accumulated` when the passes were made on another
+  // thread), then emitted in this order. The same passes give the comparisons' group summaries, handed on
+  // under `key` (ResponseContext.knownGroups).
+  const { means: summaries, summarized } = groupStatisticsOfGroupings(y, groupings, error, confidence, accumulated);
   const groups = new Map(groupings.map((g, q) => [g.key, summarized[q]!] as const));
   const out: LevelMean[] = [];
   groupings.forEach(({ term, labels }, q) => {

@@ -4,6 +4,7 @@
  */
 import type { QuickPassContinuation } from "../../../grammar/src/plain-runs-body.js";
 import type { LeveneTests } from "../stats/checks/levene.js";
+import type { GroupAccumulators, Grouping } from "../stats/linear-model/group-means.js";
 import type { PlainPartHelper } from "./read-plain-runs.js";
 
 export interface EngineOptions {
@@ -11,10 +12,10 @@ export interface EngineOptions {
   readonly plainPartHelper?: PlainPartHelper;
   /** The parser's quick pass over the text's second half, made on another thread (the CLI's worker). */
   readonly quickPassContinuation?: QuickPassContinuation;
-  /** Memory another thread can read (a SharedArrayBuffer), for the arrays `varianceTests` is given. */
+  /** Memory another thread can read (a SharedArrayBuffer), for the arrays `analysisHelper` is given. */
   readonly sharedMemory?: (bytes: number) => ArrayBufferLike;
-  /** Runs `leveneTests` on another thread while this one goes on (the CLI's worker). */
-  readonly varianceTests?: VarianceTestsHelper;
+  /** Runs parts of a large file's analysis on another thread while this one goes on (the CLI's worker). */
+  readonly analysisHelper?: AnalysisHelper;
 }
 
 /** The arguments of `leveneTests` (levene.ts) without totals; `y` and `codes` in `sharedMemory`. */
@@ -24,10 +25,19 @@ export interface VarianceTestsJob {
   readonly count: number;
 }
 
-export interface VarianceTestsHelper {
-  /**
-   * Starts `leveneTests` of `job` on the other thread; returns the function that waits for its result
-   * (undefined when the other thread failed), or undefined when it cannot start.
-   */
+/** The arguments of `accumulateGroupings` (group-means.ts); every array in `sharedMemory`. */
+export interface GroupAccumulatorsJob {
+  readonly y: Float64Array;
+  readonly groupings: readonly Grouping[];
+}
+
+/**
+ * Each method starts a computation on the other thread and returns the function that waits for its
+ * result (undefined when the other thread failed), or undefined when it cannot start.
+ */
+export interface AnalysisHelper {
+  /** `leveneTests` of the job. */
   startVarianceTests(job: VarianceTestsJob): (() => LeveneTests | undefined) | undefined;
+  /** `accumulateGroupings` of the job. */
+  startGroupAccumulators(job: GroupAccumulatorsJob): (() => GroupAccumulators | undefined) | undefined;
 }

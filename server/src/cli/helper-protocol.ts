@@ -1,6 +1,7 @@
 /** What the CLI's main thread and its helper thread (helper-worker.ts) share and send each other. */
 import type { PlainRunsBody } from "../../../grammar/src/plain-runs-body.js";
-import type { VarianceTestsJob } from "../analysis/engine-options.js";
+import type { GroupAccumulatorsJob, VarianceTestsJob } from "../analysis/engine-options.js";
+import type { GroupAccumulators } from "../stats/linear-model/group-means.js";
 import type { PlainPart, PlainPartJob } from "../analysis/read-plain-runs.js";
 import type { LeveneTests } from "../stats/checks/levene.js";
 
@@ -24,13 +25,14 @@ export interface HelperStart {
 }
 
 /**
- * Read a part of a plain runs table (`readPlainPart`), make the quick pass's facts from a line feed on, or
- * run the variance tests (`leveneTests`).
+ * Read a part of a plain runs table (`readPlainPart`), make the quick pass's facts from a line feed on, run
+ * the variance tests (`leveneTests`) or the level means' passes (`accumulateGroupings`).
  */
 export type HelperJobMessage =
   | { readonly kind: "part"; readonly sequence: number; readonly job: PlainPartJob }
   | { readonly kind: "tail"; readonly sequence: number; readonly at: number }
-  | { readonly kind: "variance"; readonly sequence: number; readonly job: VarianceTestsJob };
+  | { readonly kind: "variance"; readonly sequence: number; readonly job: VarianceTestsJob }
+  | { readonly kind: "groups"; readonly sequence: number; readonly job: GroupAccumulatorsJob };
 
 export interface HelperAnswer {
   readonly sequence: number;
@@ -40,6 +42,8 @@ export interface HelperAnswer {
   readonly facts?: PlainRunsBody | null;
   /** A "variance" job's tests. */
   readonly tests?: LeveneTests;
+  /** A "groups" job's accumulators. */
+  readonly accumulators?: GroupAccumulators;
   /** Set when the job failed (a bug): the main thread then does the work itself. */
   readonly error?: string;
 }

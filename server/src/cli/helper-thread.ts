@@ -12,11 +12,15 @@
  */
 import { existsSync } from "node:fs";
 import { MessageChannel, type MessagePort, receiveMessageOnPort, Worker } from "node:worker_threads";
-import type { VarianceTestsHelper, VarianceTestsJob } from "../analysis/engine-options.js";
+import type { AnalysisHelper, GroupAccumulatorsJob, VarianceTestsJob } from "../analysis/engine-options.js";
+import type { GroupAccumulators } from "../stats/linear-model/group-means.js";
 import type { LeveneTests } from "../stats/checks/levene.js";
 import { type PlainColumn, type PlainColumns, plainColumns, type PlainPart, type PlainPartHelper, type PlainPartJob } from "../analysis/read-plain-runs.js";
 import type { PlainRunsBody, QuickPassContinuation } from "../../../grammar/src/plain-runs-body.js";
 import { type HelperAnswer, type HelperJobMessage, type HelperStart, Signal } from "./helper-protocol.js";
+
+/** `Omit` for each member of a union. */
+type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
 
 /** Files from this size on get the thread: below it, a table reads in a few milliseconds. */
 export const HELPER_THREAD_FROM_BYTES = 4 * 1024 * 1024;
@@ -25,7 +29,7 @@ const READY_TIMEOUT_MS = 5_000;
 /** The wait for an answer: generous (a part reads at about 0.1 µs a byte here), then the general path. */
 const ANSWER_TIMEOUT_MS = 30_000;
 
-export class HelperThread implements PlainPartHelper, VarianceTestsHelper {
+export class HelperThread implements PlainPartHelper, AnalysisHelper {
   private sequence = 0;
   private broken = false;
   /** Parts asked for, parts the worker read, and its quick passes taken (for `TRIALBOOK_DEBUG_HELPER_THREAD`). */
@@ -33,6 +37,7 @@ export class HelperThread implements PlainPartHelper, VarianceTestsHelper {
   read = 0;
   tails = 0;
   variance = 0;
+  groups = 0;
 
   private constructor(
     private readonly worker: Worker,
@@ -65,15 +70,8 @@ export class HelperThread implements PlainPartHelper, VarianceTestsHelper {
   }
 
   start(job: PlainPartJob): (() => PlainPart | undefined) | undefined {
-    if (this.broken) return undefined;
-    const sequence = ++this.sequence;
-    this.asked++;
-    this.port.postMessage({ kind: "part", sequence, job } satisfies HelperJobMessage);
-    return () => {
-      const part = this.answer(sequence)?.part;
-      if (part) this.read++;
-      return part;
-    };
+    if (!this.broken) this.asked++;
+    return this.post({ kind: "part", job }, (answer) => answer.part, () => this.read++);
   }
 
   /**
@@ -105,14 +103,24 @@ export class HelperThread implements PlainPartHelper, VarianceTestsHelper {
   /** Shared memory, for arrays the worker will read. */
   readonly sharedMemory = (bytes: number): SharedArrayBuffer => new SharedArrayBuffer(bytes);
 
+  startGroupAccumulators(job: GroupAccumulatorsJob): (() => GroupAccumulators | undefined) | undefined {
+    return this.post({ kind: "groups", job }, (answer) => answer.accumulators, () => this.groups++);
+  }
+
   startVarianceTests(job: VarianceTestsJob): (() => LeveneTests | undefined) | undefined {
+    return this.post({ kind: "variance", job }, (answer) => answer.tests, () => this.variance++);
+  }
+
+  /** Posts a job; the function returned waits for its answer and takes its result (`counted` when there is one). */
+  private post<T>(message: DistributiveOmit<HelperJobMessage, "sequence">, take: (answer: HelperAnswer) => T | undefined, counted: () => void): (() => T | undefined) | undefined {
     if (this.broken) return undefined;
     const sequence = ++this.sequence;
-    this.port.postMessage({ kind: "variance", sequence, job } satisfies HelperJobMessage);
+    this.port.postMessage({ ...message, sequence } as HelperJobMessage);
     return () => {
-      const tests = this.answer(sequence)?.tests;
-      if (tests) this.variance++;
-      return tests;
+      const answer = this.answer(sequence);
+      const result = answer ? take(answer) : undefined;
+      if (result !== undefined) counted();
+      return result;
     };
   }
 
@@ -157,5 +165,5 @@ export class HelperThread implements PlainPartHelper, VarianceTestsHelper {
 /** With `TRIALBOOK_DEBUG_HELPER_THREAD=1`: says on stderr whether a file's table was read on two threads. */
 export function reportHelperThread(env: Readonly<Record<string, string | undefined>>, stderr: (text: string) => void, thread: HelperThread | undefined): void {
   if (env.TRIALBOOK_DEBUG_HELPER_THREAD !== "1") return;
-  stderr(`helper thread: ${thread ? `${thread.read} of ${thread.asked} parts read, ${thread.tails} quick pass taken, ${thread.variance} variance tests` : "not started"}\n`);
+  stderr(`helper thread: ${thread ? `${thread.read} of ${thread.asked} parts read, ${thread.tails} quick pass taken, ${thread.variance} variance tests, ${thread.groups} level means` : "not started"}\n`);
 }

@@ -8,6 +8,7 @@ import { workerData } from "node:worker_threads";
 import { scanPlainRunsBody } from "../../../grammar/src/plain-runs-body.js";
 import { readPlainPart } from "../analysis/read-plain-runs.js";
 import { leveneTests } from "../stats/checks/levene.js";
+import { accumulateGroupings } from "../stats/linear-model/group-means.js";
 import { byteChunks } from "./byte-chunks.js";
 import { type HelperAnswer, type HelperJobMessage, type HelperStart, Signal } from "./helper-protocol.js";
 
@@ -24,6 +25,8 @@ port.on("message", (message: HelperJobMessage) => {
       // the first row after `at` as the middle row (QuickPassContinuation in plain-runs-body.ts).
       const tail = Buffer.from(bytes, message.at).toString("latin1");
       answer = { sequence, facts: scanPlainRunsBody(tail, 0, tail.length, 0) ?? null };
+    } else if (message.kind === "groups") {
+      answer = { sequence, accumulators: accumulateGroupings(message.job.y, message.job.groupings) };
     } else if (message.kind === "variance") {
       // The same function on the same arrays (shared memory) as the main thread would call.
       const { y, codes, count } = message.job;

@@ -74,7 +74,7 @@ export async function readTrialForAnalysis(path: string, workerScript: string | 
     const continuation = thread && middle >= 0 ? thread.continuation(middle, bytes.length) : undefined;
     const text = decodeText(bytes, ascii);
     if (!thread) return { text, engine: {} };
-    const engine = { plainPartHelper: thread, sharedMemory: thread.sharedMemory, varianceTests: thread, ...(continuation ? { quickPassContinuation: continuation } : {}) };
+    const engine = { plainPartHelper: thread, sharedMemory: thread.sharedMemory, analysisHelper: thread, ...(continuation ? { quickPassContinuation: continuation } : {}) };
     return { text, helper: thread, engine };
   } catch (error) {
     (thread as HelperThread | undefined)?.close();

@@ -313,11 +313,12 @@ function rowLayout(doc: AnalyzedDocument, file: TrialFile): (cells: readonly str
 export function newRunIds(existing: readonly string[], count: number): string[] {
   let prefix = "r";
   let width = 2;
-  let max = 0;
+  // BigInt: an id's number may have more digits than a double holds (400 nines made "rInfinity").
+  let max = 0n;
   for (const id of existing) {
     const m = /^(.*?)(\d+)$/.exec(id);
     if (!m) continue;
-    const value = Number(m[2]);
+    const value = BigInt(m[2]!);
     if (value >= max) {
       max = value;
       prefix = m[1]!;
@@ -326,7 +327,7 @@ export function newRunIds(existing: readonly string[], count: number): string[] 
   }
   const used = new Set(existing);
   const out: string[] = [];
-  for (let n = max + 1; out.length < count; n++) {
+  for (let n = max + 1n; out.length < count; n++) {
     const id = `${prefix}${String(n).padStart(width, "0")}`;
     if (!used.has(id)) out.push(id);
   }

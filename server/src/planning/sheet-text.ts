@@ -76,23 +76,26 @@ export function compareNatural(a: string, b: string): number {
  */
 export function newRunIds(existing: readonly string[], count: number): string[] {
   const used = new Set(existing);
-  const byPrefix = new Map<string, { n: number; max: number; width: number }>();
+  // The numbers as BigInt: an id may carry more digits than a double holds exactly (or at all: a number of
+  // 400 nines is Infinity as a double, and the next id would have read "rInfinity").
+  const byPrefix = new Map<string, { n: number; max: bigint; width: number }>();
   for (const id of existing) {
     const m = /^(.*?)(\d+)$/.exec(id);
     if (!m) continue;
-    const entry = byPrefix.get(m[1]!) ?? { n: 0, max: 0, width: 0 };
+    const entry = byPrefix.get(m[1]!) ?? { n: 0, max: 0n, width: 0 };
     entry.n++;
-    entry.max = Math.max(entry.max, Number(m[2]));
+    const number = BigInt(m[2]!);
+    if (number > entry.max) entry.max = number;
     entry.width = Math.max(entry.width, m[2]!.length);
     byPrefix.set(m[1]!, entry);
   }
   let prefix = "r";
-  let best = { n: 0, max: 0, width: 0 };
+  let best = { n: 0, max: 0n, width: 0 };
   for (const [p, e] of byPrefix) if (e.n > best.n || (e.n === best.n && p < prefix)) [prefix, best] = [p, e];
   // A fresh numbering is as wide as the largest id needs; an existing one keeps its own padding.
   const width = best.n > 0 ? best.width : Math.max(2, String(count).length);
   const out: string[] = [];
-  let next = best.max + 1;
+  let next = best.max + 1n;
   while (out.length < count) {
     const id = prefix + String(next++).padStart(width, "0");
     if (!used.has(id)) out.push(id);

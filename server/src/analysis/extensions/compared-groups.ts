@@ -1,6 +1,6 @@
 import type { ResponseContext } from "../analyze-response.js";
 import { type GroupSummary, summarizeGroupings } from "../../stats/comparisons/group-summary.js";
-import { crossedCodes, startedCrossedCodes } from "../early-variance-tests.js";
+import { crossedCodes, startedCrossedCodes } from "../early-analysis.js";
 
 /** The groups of one compared term: a factor's levels or an interaction's cells, with labels and summaries. */
 export interface ComparedGroups {

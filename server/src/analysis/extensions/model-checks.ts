@@ -32,7 +32,7 @@ import { friedman, kruskalWallis } from "../../stats/alternatives/rank-tests.js"
 import { welchAnova, welchT } from "../../stats/alternatives/welch.js";
 import { formatNumber, formatP } from "../../text/format-number.js";
 import { commonGroupings, fixedFactorsInModel, groupsOf, prepareGroups } from "./compared-groups.js";
-import { takeVarianceTests } from "../early-variance-tests.js";
+import { takeVarianceTests } from "../early-analysis.js";
 import { studentizedCandidates } from "./studentized-values.js";
 
 const MAX_SPEC_DIAGNOSTICS = 100;
@@ -65,7 +65,7 @@ export const modelChecksExtension: ResponseExtension = (context) => {
       // no within-cell spread; they need a cell with at least three runs.
       const pairsOnly = present.every(([s]) => s.n <= 2);
       // Both tests share their passes over the runs (levene.ts); for a large file, made on another thread
-      // while the fit, the means and the comparisons were made here (early-variance-tests.ts).
+      // while the fit, the means and the comparisons were made here (early-analysis.ts).
       const count = cells.summaries.length;
       const spread = pairsOnly ? null : (takeVarianceTests(context.y, cells.codes, count) ?? leveneTests(context.y, cells.codes, count, { sizes: cells.summaries.map((s) => s.n), sums: cells.sums }));
       const levene = spread?.levene ?? null;

@@ -63,17 +63,23 @@ export function groupMeansOfGroupings(y: Float64Array, groupings: readonly Group
 }
 
 /**
- * {@link groupMeansOfGroupings}, and per grouping the summaries the comparisons and variance checks start
- * from (`summarizeGroupsWithSums` of the same observations and groups): both come from the same two
- * passes, so a caller that needs both reads the observations once. A cell grouping's group is
- * `codes * within.levelCount + within.codes`, as in the crossed codes of the comparisons.
+ * Per group of every grouping (group g of grouping q at `offsets[q] + g`): the count, the plain sum and
+ * first-pass mean, and the corrections and squared deviations about that mean.
  */
-export function groupStatisticsOfGroupings(
-  y: Float64Array,
-  groupings: readonly Grouping[],
-  pooled: PooledError,
-  confidence = 0.95,
-): { means: GroupMean[][]; summarized: SummarizedGroups[] } {
+export interface GroupAccumulators {
+  readonly offsets: Int32Array;
+  readonly counts: Float64Array;
+  readonly sums: Float64Array;
+  readonly means: Float64Array;
+  readonly corrections: Float64Array;
+  readonly squares: Float64Array;
+}
+
+/**
+ * The two passes of `groupStatisticsOfGroupings` over the observations. Typed arrays in and out, so that
+ * another thread can make them (the CLI's helper thread, for a large file) with the same results bit for bit.
+ */
+export function accumulateGroupings(y: Float64Array, groupings: readonly Grouping[]): GroupAccumulators {
   const k = groupings.length;
   // All groupings' accumulators in one array each, grouping q's groups from offsets[q].
   const offsets = new Int32Array(k + 1);
@@ -97,6 +103,24 @@ export function groupStatisticsOfGroupings(
       else accumulateGroups(y, codes, groupCount, ...cells);
     }
   }
+  return { offsets, counts, sums, means, corrections, squares };
+}
+
+/**
+ * {@link groupMeansOfGroupings}, and per grouping the summaries the comparisons and variance checks start
+ * from (`summarizeGroupsWithSums` of the same observations and groups): both come from the same two
+ * passes, so a caller that needs both reads the observations once. A cell grouping's group is
+ * `codes * within.levelCount + within.codes`, as in the crossed codes of the comparisons. `accumulated`:
+ * the passes (`accumulateGroupings`), when made elsewhere.
+ */
+export function groupStatisticsOfGroupings(
+  y: Float64Array,
+  groupings: readonly Grouping[],
+  pooled: PooledError,
+  confidence = 0.95,
+  accumulated: GroupAccumulators = accumulateGroupings(y, groupings),
+): { means: GroupMean[][]; summarized: SummarizedGroups[] } {
+  const { offsets, counts, sums, means, corrections, squares } = accumulated;
   const usable =
     pooled.ms !== null && Number.isFinite(pooled.ms) && pooled.ms >= 0 && pooled.df > 0 && confidence > 0 && confidence < 1;
   const t = usable ? tQuantile(1 - (1 - confidence) / 2, pooled.df) : Number.NaN;

@@ -1,38 +1,50 @@
 /**
- * The variance tests of a large file started on another thread (early-variance-tests.ts): the results are
- * those the model checks compute themselves, the tests are taken only for exactly the cells they were
- * started for, and the groups of those cells use the codes made for them. The other thread is played here
- * by a helper that runs `leveneTests` on this thread (the CLI's worker is tested in test/cli/launcher.test.ts).
+ * Parts of a large file's analysis started on another thread (early-analysis.ts): the level means' passes
+ * and the variance tests give the results this thread computes itself, the tests are taken only for
+ * exactly the cells they were started for, and the groups of those cells use the codes made for them. The
+ * other thread is played here by a helper that runs the same functions on this thread (the CLI's worker is
+ * tested in test/cli/launcher.test.ts).
  */
 import assert from "node:assert/strict";
 import { parseTrial } from "../../grammar/src/parse.js";
 import { analyzeParsed } from "../../server/src/analysis/analyze-document.js";
-import { crossedCodes, startVarianceTests, takeVarianceTests, VARIANCE_TESTS_ELSEWHERE_FROM } from "../../server/src/analysis/early-variance-tests.js";
-import type { EngineOptions, VarianceTestsJob } from "../../server/src/analysis/engine-options.js";
+import { crossedCodes, startVarianceTests, takeVarianceTests, ELSEWHERE_FROM } from "../../server/src/analysis/early-analysis.js";
+import type { EngineOptions, GroupAccumulatorsJob, VarianceTestsJob } from "../../server/src/analysis/engine-options.js";
+import { plainColumns } from "../../server/src/analysis/read-plain-runs.js";
 import { leveneTests } from "../../server/src/stats/checks/levene.js";
+import { accumulateGroupings } from "../../server/src/stats/linear-model/group-means.js";
 
-/** An engine whose "other thread" runs here, counting the jobs it was given. */
-function sameThreadEngine(): EngineOptions & { jobs: VarianceTestsJob[] } {
+/** An engine whose "other thread" runs here, keeping the jobs it was given. */
+function sameThreadEngine(): EngineOptions & { jobs: VarianceTestsJob[]; groupJobs: GroupAccumulatorsJob[] } {
   const jobs: VarianceTestsJob[] = [];
+  const groupJobs: GroupAccumulatorsJob[] = [];
   return {
     jobs,
+    groupJobs,
     sharedMemory: (bytes) => new SharedArrayBuffer(bytes),
-    varianceTests: {
+    // The table's columns in shared memory, read on this thread (as the CLI's reader makes them).
+    plainPartHelper: { columns: (kinds, rows) => plainColumns(kinds, rows, (bytes) => new SharedArrayBuffer(bytes)), start: () => undefined },
+    analysisHelper: {
       startVarianceTests(job) {
         jobs.push(job);
         const tests = leveneTests(job.y, job.codes, job.count);
         return () => tests;
+      },
+      startGroupAccumulators(job) {
+        groupJobs.push(job);
+        const accumulators = accumulateGroupings(job.y, job.groupings);
+        return () => accumulators;
       },
     },
   };
 }
 
 describe("variance tests started early on another thread", () => {
-  it("give the model checks' own results, for the cells of the fixed factors in the model", function () {
+  it("give this thread's own means, tables and checks, for the cells of the fixed factors in the model", function () {
     this.timeout(60000);
     // Invented: spread growing with the level of a, a random lot factor (not in the cells).
     const rows: string[] = [];
-    const n = VARIANCE_TESTS_ELSEWHERE_FROM + 2000;
+    const n = ELSEWHERE_FROM + 2000;
     for (let i = 0; i < n; i++) {
       const a = i % 3;
       const y = (20 + a + ((i * 7919) % 101) / (50 - 10 * a)).toFixed(2);
@@ -43,7 +55,9 @@ describe("variance tests started early on another thread", () => {
     const engine = sameThreadEngine();
     const early = analyzeParsed(file, {}, {}, engine);
     const alone = analyzeParsed(file);
-    assert.equal(engine.jobs.length, 1, "one job: the cells of a x b");
+    assert.equal(engine.jobs.length, 1, "one variance job: the cells of a x b");
+    // The level means of a and b (not of the random lot) and the cells of a x b, in one job.
+    assert.deepEqual(engine.groupJobs.map((job) => job.groupings.map((g) => g.groupCount)), [[3, 2, 6]]);
     assert.equal(engine.jobs[0]!.count, 6);
     assert.ok(engine.jobs[0]!.y.buffer instanceof SharedArrayBuffer && engine.jobs[0]!.codes.buffer instanceof SharedArrayBuffer);
     const checks = early.responses[0]!.checks!;
@@ -53,7 +67,7 @@ describe("variance tests started early on another thread", () => {
   });
 
   it("are taken only for the groups they were started for, and waited for in any case", () => {
-    const y = new Float64Array(new SharedArrayBuffer(8 * VARIANCE_TESTS_ELSEWHERE_FROM));
+    const y = new Float64Array(new SharedArrayBuffer(8 * ELSEWHERE_FROM));
     for (let i = 0; i < y.length; i++) y[i] = ((i * 7919) % 997) / 10;
     const shared = (values: number[]) => {
       const codes = new Int32Array(new SharedArrayBuffer(4 * y.length));
@@ -66,7 +80,8 @@ describe("variance tests started early on another thread", () => {
     let waited = 0;
     const engine: EngineOptions = {
       sharedMemory: (bytes) => new SharedArrayBuffer(bytes),
-      varianceTests: {
+      analysisHelper: {
+        startGroupAccumulators: () => undefined,
         startVarianceTests: (job) => {
           starts++;
           return () => {

@@ -1,18 +1,36 @@
 /**
- * The variance tests of a large file, started on the engine's other thread (`EngineOptions.varianceTests`)
+ * Parts of a large file's analysis started on the engine's other thread (`EngineOptions.analysisHelper`)
  * as soon as a response's values are centred and its levels compacted, so that they run there while this
- * thread fits the model, forms the means and compares them. The model checks take the result when it is
- * for exactly their cells (the same codes, value for value), and otherwise compute the tests themselves.
+ * thread goes on: the level means' two passes (`accumulateGroupings`, needed after the fit) and the
+ * variance tests (needed by the model checks, after the means and the comparisons). Each is the same
+ * function on the same arrays (shared memory) as this thread would run, so the results are the same.
  *
- * Why here and not in the model checks: started there, the tests waited for (measured 2026-12-02 on the
- * 1M-run file: posted 0.4 ms before they were needed, then a 40 ms wait); started after the centring,
- * the fit and the means (about 60 ms here) run meanwhile.
+ * Why started here: the variance tests started from the model checks were posted 0.4 ms before they were
+ * needed and waited for (40 ms of cold code on the other thread; 1M-run file, 2026-12-02); started after
+ * the centring, the fit, the means and the comparisons run meanwhile.
  */
 import type { LeveneTests } from "../stats/checks/levene.js";
+import type { GroupAccumulators, Grouping } from "../stats/linear-model/group-means.js";
 import type { EngineOptions } from "./engine-options.js";
 
-/** From this many runs on, the variance tests go to another thread when the engine has one. */
-export const VARIANCE_TESTS_ELSEWHERE_FROM = 100_000;
+/** From this many runs on, work goes to another thread when the engine has one. */
+export const ELSEWHERE_FROM = 100_000;
+
+function shared(array: ArrayBufferView): boolean {
+  return array.buffer instanceof SharedArrayBuffer;
+}
+
+/**
+ * Starts `accumulateGroupings(y, groupings)` on the other thread when the engine has one, `y` is large and
+ * every array is in shared memory; returns the function that waits for the result (undefined: compute it here).
+ */
+export function startGroupAccumulators(engine: EngineOptions, y: Float64Array, groupings: readonly Grouping[]): (() => GroupAccumulators | undefined) | undefined {
+  const helper = engine.analysisHelper;
+  if (!helper || y.length < ELSEWHERE_FROM || !shared(y)) return undefined;
+  if (groupings.some((g) => !shared(g.codes) || (g.within !== undefined && !shared(g.within.codes)))) return undefined;
+  // Only the fields of a grouping (the caller's carry labels too).
+  return helper.startGroupAccumulators({ y, groupings: groupings.map(({ codes, groupCount, within }) => (within ? { codes, groupCount, within } : { codes, groupCount })) });
+}
 
 interface Started {
   /** The factors crossed, as `groupsOf` keys them ("0,2"). */
@@ -49,11 +67,11 @@ export function crossedCodes(parts: readonly Int32Array[], sizes: readonly numbe
  * large and in its shared memory, and so are the codes.
  */
 export function startVarianceTests(engine: EngineOptions, y: Float64Array, factors: readonly number[], cells: readonly { readonly codes: Int32Array; readonly levels: readonly number[] }[]): void {
-  const helper = engine.varianceTests;
-  if (!helper || cells.length === 0 || y.length < VARIANCE_TESTS_ELSEWHERE_FROM || !(y.buffer instanceof SharedArrayBuffer)) return;
+  const helper = engine.analysisHelper;
+  if (!helper || cells.length === 0 || y.length < ELSEWHERE_FROM || !shared(y)) return;
   const sizes = cells.map((c) => c.levels.length);
   const codes = crossedCodes(cells.map((c) => c.codes), sizes, engine.sharedMemory);
-  if (!(codes.buffer instanceof SharedArrayBuffer)) return;
+  if (!shared(codes)) return;
   const count = sizes.reduce((a, b) => a * b, 1);
   // Without the groups' sizes and sums: the other thread counts them in the pass leveneTests then makes,
   // the same numbers as the means' summaries hold (plain sums in observation order).
