@@ -1,14 +1,16 @@
 /**
- * The CLI's second thread for large files: while the main thread reads the first half of a large plain
- * runs table, a worker (helper-worker.ts) reads the second half from the file's bytes in shared memory
- * into the same shared columns (`PlainPartHelper` in read-plain-runs.ts). The main thread then waits for
- * it synchronously (`Atomics.wait`), so the engine stays a plain synchronous function.
+ * The CLI's second thread for large files (a worker, helper-worker.ts, on the file's bytes in shared
+ * memory): the parser's quick pass over the text's second half (`QuickPassContinuation`), the second half
+ * of a large plain runs table into the same shared columns as the main thread's half (`PlainPartHelper`
+ * in read-plain-runs.ts), and each response's level means' passes and variance tests (`AnalysisHelper`,
+ * early-analysis.ts). The main thread waits for each result synchronously (`Atomics.wait`), so the
+ * engine stays a plain synchronous function; a job the thread cannot do is done on the main thread.
  *
- * Why: reading the table is the largest single step of `trialbook analyze` on a million-run file (about
- * 100 of 440 ms here, 2026-12-02), and a loop over the table's bytes was already near what one core does
- * (docs/performance.md); a second core halves it. Only the CLI uses it: its file is read once and its
- * bytes can be put in shared memory as they are read. The thread starts while the file is read and the
- * parser is built, so its start-up (~20 ms of the other core) is paid before its work is asked for.
+ * Why: on a million-run file the reading alone was about 100 of 440 ms (2026-12-02), with a loop over the
+ * table's bytes already near what one core does (docs/performance.md); a second core halves that and
+ * takes passes of the analysis that do not depend on the fit. Only the CLI uses it: its file is read once
+ * and its bytes can be put in shared memory as they are read. The thread starts while the file is read
+ * and the parser is built, so its start-up (~20 ms of the other core) is paid before work is asked for.
  */
 import { existsSync } from "node:fs";
 import { MessageChannel, type MessagePort, receiveMessageOnPort, Worker } from "node:worker_threads";
@@ -32,6 +34,8 @@ const ANSWER_TIMEOUT_MS = 30_000;
 export class HelperThread implements PlainPartHelper, AnalysisHelper {
   private sequence = 0;
   private broken = false;
+  /** Answers received while waiting for another job's, kept until their own job is waited for. */
+  private readonly early = new Map<number, HelperAnswer>();
   /** Parts asked for, parts the worker read, and its quick passes taken (for `TRIALBOOK_DEBUG_HELPER_THREAD`). */
   asked = 0;
   read = 0;
@@ -142,12 +146,17 @@ export class HelperThread implements PlainPartHelper, AnalysisHelper {
     }
     const deadline = Date.now() + ANSWER_TIMEOUT_MS;
     for (;;) {
-      const received = receiveMessageOnPort(this.port);
+      const received = this.early.get(sequence) ?? (receiveMessageOnPort(this.port)?.message as HelperAnswer | undefined);
       if (received) {
-        const answer = received.message as HelperAnswer;
-        if (answer.sequence !== sequence) continue; // a late answer to a job given up on
-        if (answer.error !== undefined) this.broken = true;
-        return answer;
+        this.early.delete(sequence);
+        if (received.sequence !== sequence) {
+          // Another job's answer, kept for when that job is waited for (its results are small; one never
+          // waited for, as a response that returns early leaves, goes with the thread).
+          this.early.set(received.sequence, received);
+          continue;
+        }
+        if (received.error !== undefined) this.broken = true;
+        return received;
       }
       const left = deadline - Date.now();
       if (left <= 0 || this.broken) {
