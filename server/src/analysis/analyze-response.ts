@@ -8,7 +8,7 @@ import { type Design, type DesignRuns, type DesignTerm, ValueStatus } from "./de
 import { covariateText, responseSpan, responseText, runId } from "./design-runs.js";
 import { type Diagnostic, diagnostic } from "./diagnostics.js";
 import type { EngineOptions } from "./engine-options.js";
-import { startGroupAccumulators, startVarianceTests } from "./early-analysis.js";
+import { fixedFactorsIn, startGroupAccumulators, startVarianceTests } from "./early-analysis.js";
 import type { AdjustedLevelMean, AnovaRow, LevelMean, ResponseAnalysis, RunResidual } from "./results.js";
 
 /** Where analysis diagnostics about a term or response point: the model term if written, else the response. */
@@ -187,7 +187,7 @@ export function analyzeResponse(design: Design, responseIndex: number, anchors: 
   // (early-analysis.ts).
   const groupings = meanGroupings(design, meanFactors, compact);
   const accumulating = startGroupAccumulators(engine, centred.values, groupings);
-  const fixedInModel = [...new Set(terms.flatMap((t) => t.variables.flatMap((v) => (v.kind === "factor" && design.factors[v.index]!.role === "fixed" ? [v.index] : []))))].sort((a, b) => a - b);
+  const fixedInModel = fixedFactorsIn(design, terms);
   startVarianceTests(engine, centred.values, fixedInModel, fixedInModel.map((f) => compact.get(f)!));
 
   const factorSlot = new Map(usedFactors.map((f, i) => [f, i] as const));

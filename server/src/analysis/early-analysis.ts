@@ -11,6 +11,7 @@
  */
 import type { LeveneTests } from "../stats/checks/levene.js";
 import type { GroupAccumulators, Grouping } from "../stats/linear-model/group-means.js";
+import type { Design, DesignTerm } from "./design.js";
 import type { EngineOptions } from "./engine-options.js";
 
 /** From this many runs on, work goes to another thread when the engine has one. */
@@ -42,6 +43,13 @@ interface Started {
 
 /** Tests started, by the centred values they are of. */
 const started = new WeakMap<Float64Array, Started>();
+
+/** Fixed factors appearing in any of `terms`, in factor order: the cells of the variance tests. */
+export function fixedFactorsIn(design: Design, terms: readonly DesignTerm[]): number[] {
+  const seen = new Set<number>();
+  for (const term of terms) for (const v of term.variables) if (v.kind === "factor" && design.factors[v.index]!.role === "fixed") seen.add(v.index);
+  return [...seen].sort((a, b) => a - b);
+}
 
 /**
  * The group of each observation when crossing factors with these compact codes and numbers of levels

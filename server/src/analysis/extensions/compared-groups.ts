@@ -1,6 +1,6 @@
 import type { ResponseContext } from "../analyze-response.js";
 import { type GroupSummary, summarizeGroupings } from "../../stats/comparisons/group-summary.js";
-import { crossedCodes, startedCrossedCodes } from "../early-analysis.js";
+import { crossedCodes, fixedFactorsIn, startedCrossedCodes } from "../early-analysis.js";
 
 /** The groups of one compared term: a factor's levels or an interaction's cells, with labels and summaries. */
 export interface ComparedGroups {
@@ -31,9 +31,7 @@ export function fixedMainEffects(context: ResponseContext): number[] {
 
 /** Fixed factors appearing in any fitted term. */
 export function fixedFactorsInModel(context: ResponseContext): number[] {
-  const seen = new Set<number>();
-  for (const term of context.modelTerms) for (const v of term.variables) if (v.kind === "factor" && context.design.factors[v.index]!.role === "fixed") seen.add(v.index);
-  return [...seen].sort((a, b) => a - b);
+  return fixedFactorsIn(context.design, context.modelTerms);
 }
 
 /**
