@@ -16,6 +16,11 @@
  * covariate's `?`, a value that is not a plain decimal (an exponent, more than 15 digits from the first
  * nonzero one), ids that do not increase (a randomised sheet: the general path looks for repeats), a
  * line longer than `LONGEST_ROW`, a character beyond ASCII.
+ *
+ * A large table may be read in two parts: the rows from a split row on by another thread
+ * (`PlainPartHelper`, the CLI's helper thread) into the same columns; the parts' results are combined as
+ * one pass would have made them. As it reads, each part counts what the checks and the centring would
+ * count afterwards (`PlainTallies`), so that they need no pass over the runs of their own.
  */
 import { encodeAsciiChunk } from "../../../grammar/src/ascii-chunk.js";
 import type { DecimalColumn } from "../stats/decimal/center-decimals.js";
