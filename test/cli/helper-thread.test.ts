@@ -3,7 +3,12 @@
  * give on this thread, and their results can be waited for in any order.
  */
 import assert from "node:assert/strict";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
 import { fileURLToPath } from "node:url";
+import { parseTrial } from "../../grammar/src/parse.js";
+import { analyzeParsed } from "../../server/src/analysis/analyze-document.js";
 import { HelperThread } from "../../server/src/cli/helper-thread.js";
 import { leveneTests } from "../../server/src/stats/checks/levene.js";
 import { accumulateGroupings, type Grouping } from "../../server/src/stats/linear-model/group-means.js";
@@ -44,6 +49,46 @@ describe("cli: the helper thread", () => {
       assert.equal(thread.groups, 1);
     } finally {
       thread.close();
+    }
+  });
+
+  it("a thread that fails every job changes nothing but speed: the main thread does the work", function () {
+    this.timeout(60000);
+    // A stand-in worker that starts and answers every job with an error (as a bug in a job would).
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), "trialbook-helper-"));
+    const script = path.join(dir, "failing-worker.mjs");
+    fs.writeFileSync(
+      script,
+      [
+        'import { workerData } from "node:worker_threads";',
+        "const { signal, port } = workerData;",
+        'port.on("message", (m) => { port.postMessage({ sequence: m.sequence, error: "failed on purpose" }); Atomics.store(signal, 1, m.sequence); Atomics.notify(signal, 1); });',
+        "Atomics.store(signal, 0, 1); Atomics.notify(signal, 0);",
+      ].join("\n"),
+    );
+    // Invented runs, large enough for every job (table halves, quick pass, means, variance tests).
+    const rows: string[] = [];
+    for (let i = 0; i < 120_000; i++) rows.push(`  r${i + 1} a${(i % 3) + 1} b${((i >> 1) % 2) + 1} | ${(20 + (i % 3) + ((i * 7919) % 101) / 50).toFixed(2)}\n`);
+    const text = `response y unit mm\nfactor a levels a1, a2, a3\nfactor b levels b1, b2\nruns id a b | y\n${rows.join("")}`;
+    const bytes = new SharedArrayBuffer(text.length);
+    Buffer.from(bytes).write(text, "latin1");
+    const thread = HelperThread.start(script, bytes)!;
+    try {
+      const at = text.indexOf("\n", text.length >> 1);
+      const continuation = thread.continuation(at, text.length)!;
+      const file = parseTrial(text, { continuation });
+      const engine = { plainPartHelper: thread, sharedMemory: thread.sharedMemory, analysisHelper: thread };
+      const helped = analyzeParsed(file, {}, {}, engine);
+      const alone = analyzeParsed(parseTrial(text));
+      assert.deepEqual(helped.diagnostics, alone.diagnostics);
+      assert.deepEqual(JSON.parse(JSON.stringify(helped.responses)), JSON.parse(JSON.stringify(alone.responses)));
+      assert.equal(helped.responses[0]!.n, 120_000);
+      // The first failure marks the thread broken: nothing more is asked of it.
+      assert.deepEqual([thread.tails, thread.read, thread.groups, thread.variance], [0, 0, 0, 0]);
+      assert.equal(thread.startVarianceTests({ y: new Float64Array(1), codes: new Int32Array(1), count: 1 }), undefined);
+    } finally {
+      thread.close();
+      fs.rmSync(dir, { recursive: true, force: true });
     }
   });
 
