@@ -380,10 +380,6 @@ function uniqueIndices(terms: readonly DesignTerm[], kind: "factor" | "covariate
   return [...seen].sort((a, b) => a - b);
 }
 
-/**
- * Raw level means for every fixed and block factor, and cell means for every pair of fixed factors, with
- * intervals from the model's pooled residual mean square.
- */
 /** A grouping of the level means, with the names it is shown and handed on under. */
 interface MeanGrouping extends Grouping {
   /** The grouping's factor list as the comparisons name it ("0", "0,2"). */
@@ -424,6 +420,10 @@ function meanGroupings(design: Design, meanFactors: readonly number[], compact: 
   return groupings;
 }
 
+/**
+ * Raw level means for every fixed and block factor, and cell means for every pair of fixed factors
+ * (`meanGroupings`), with intervals from the model's pooled residual mean square.
+ */
 function rawMeans(
   groupings: readonly MeanGrouping[],
   y: Float64Array,
