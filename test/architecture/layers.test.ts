@@ -25,7 +25,7 @@ function violations(dir: string, forbidden: (spec: string) => boolean): string[]
 
 describe("layering (ARCHITECTURE.md invariants)", () => {
   it("the import scanner sees relative, package and dynamic imports", () => {
-    const seen = importsOf("server/src/cli/check-command.ts");
+    const seen = importsOf("server/src/cli/read-text.ts");
     assert.ok(seen.includes("server/src/analysis/analyze-document.js"), seen.join(", "));
     assert.ok(seen.some((s) => s.startsWith("node:")), seen.join(", "));
     assert.ok(importsOf("server/src/lsp/server.ts").some((s) => s.startsWith("vscode-languageserver")));

@@ -91,7 +91,7 @@ const ENDS_CELL: Uint8Array = (() => {
 export type AsciiChunkLoader = (from: number, to: number, into: Uint8Array) => boolean;
 
 /** The loader of a string: `encodeInto` a chunk at a time. */
-export function stringChunks(source: string): AsciiChunkLoader {
+function stringChunks(source: string): AsciiChunkLoader {
   return (from, to, into) => encodeAsciiChunk(source, from, to, into);
 }
 
@@ -243,7 +243,7 @@ export interface PlainTallies {
 }
 
 /** Combinations of levels counted at most (beyond, the cell checks count them in a pass of their own). */
-export const MAX_TALLIED_CELLS = 1 << 16;
+const MAX_TALLIED_CELLS = 1 << 16;
 
 /** Reading rows `[firstRow, endRow)` of a table from the text `[from, to)` into `columns`. */
 export interface PlainPartJob {

@@ -1,5 +1,4 @@
 import { resolve } from "node:path";
-import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { SumsOfSquaresType } from "../analysis/design.js";
 import { alignColumns } from "../text/align-columns.js";
 import { CAUTION } from "../text/caution.js";
@@ -12,8 +11,7 @@ import { VERSION } from "../version.js";
 import { choice, parseArguments, probability } from "./arguments.js";
 import { locateDiagnostics } from "./check-command.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
-import { reportHelperThread } from "./helper-thread.js";
-import { readTrialForAnalysis } from "./read-text.js";
+import { analyzeTrialText, readTrialForAnalysis } from "./read-text.js";
 
 export const ANALYZE_USAGE = `Usage: trialbook analyze FILE... [--format text|json] [--ss-type I|II|III] [--alpha A] [--confidence C]
   Prints the ANOVA table, R², residual SD and means of every response (JSON: one file at a time).
@@ -35,17 +33,11 @@ export async function analyzeCommand(args: readonly string[], io: CliIo): Promis
   const confidence = probability(values.confidence, "confidence");
   let exit = EXIT_OK;
   for (const path of positionals) {
-    const { text, helper, engine } = await readTrialForAnalysis(resolve(io.cwd, path), io.helperWorker).catch(() => {
+    const read = await readTrialForAnalysis(resolve(io.cwd, path), io.helperWorker).catch(() => {
       throw new UsageError(`Cannot read '${path}'.`);
     });
-    const overrides = { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) };
-    let analysis: DocumentAnalysis;
-    try {
-      analysis = analyzeDocument(text, {}, overrides, engine);
-    } finally {
-      helper?.close();
-    }
-    reportHelperThread(io.env, io.stderr, helper);
+    const text = read.text;
+    const analysis = analyzeTrialText(read, { ...(ssType ? { ssType } : {}), ...(alpha ? { alpha } : {}), ...(confidence ? { confidence } : {}) }, io);
     const diagnostics = locateDiagnostics(text, analysis.diagnostics);
     io.stdout(format === "json" ? JSON.stringify(analysisJson(path, analysis, diagnostics), null, 2) + "\n" : analysisText(path, analysis, diagnostics));
     if (diagnostics.some((d) => d.severity === "error")) exit = EXIT_PROBLEMS;

@@ -1,6 +1,5 @@
 import { resolve } from "node:path";
 import type { Span } from "../../../grammar/src/ast.js";
-import { analyzeDocument } from "../analysis/analyze-document.js";
 import type { Diagnostic } from "../analysis/diagnostics.js";
 import { choice, parseArguments } from "./arguments.js";
 import { findTrialFiles } from "./find-trial-files.js";
@@ -8,8 +7,7 @@ import { locateOffsets } from "./locate-offsets.js";
 import { type CliIo, EXIT_OK, EXIT_PROBLEMS, UsageError } from "./io.js";
 import { type SarifDiagnostic, type SarifRegion, sarifLog } from "./sarif.js";
 import { createProgress, severityStyle, terminalStyle } from "./terminal-style.js";
-import { reportHelperThread } from "./helper-thread.js";
-import { readTrialForAnalysis, type TrialText } from "./read-text.js";
+import { analyzeTrialText, readTrialForAnalysis, type TrialText } from "./read-text.js";
 
 export const CHECK_USAGE = `Usage: trialbook check [paths...] [--format text|json|sarif] [--max-warnings N]
   Checks .trial files. Directories are searched recursively (default: the current directory), skipping
@@ -81,16 +79,10 @@ export async function checkCommand(args: readonly string[], io: CliIo): Promise<
     } catch {
       throw new UsageError(`Cannot read '${file}'.`);
     }
-    const { text, helper, engine } = read;
+    const text = read.text;
     const progress = createProgress(io, text.length);
     progress.update(`Checking ${file} (${Math.round(text.length / 1e6)} MB)...`);
-    let diagnostics: readonly Diagnostic[];
-    try {
-      diagnostics = analyzeDocument(text, {}, {}, engine).diagnostics;
-    } finally {
-      helper?.close();
-    }
-    reportHelperThread(io.env, io.stderr, helper);
+    const diagnostics = analyzeTrialText(read, {}, io).diagnostics;
     progress.done();
     const located = locateDiagnostics(text, diagnostics);
     for (const d of located) counts[d.severity]++;

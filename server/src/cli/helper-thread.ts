@@ -84,22 +84,19 @@ export class HelperThread implements PlainPartHelper, AnalysisHelper {
    * there.
    */
   continuation(at: number, length: number): QuickPassContinuation | undefined {
-    if (this.broken) return undefined;
-    const sequence = ++this.sequence;
-    this.port.postMessage({ kind: "tail", sequence, at } satisfies HelperJobMessage);
-    let facts: PlainRunsBody | undefined | null;
-    let waited = false;
+    const wait = this.post({ kind: "tail", at }, (answer) => (answer.facts === undefined ? undefined : { facts: answer.facts }), () => this.tails++);
+    if (!wait) return undefined;
+    let taken: { facts: PlainRunsBody | undefined | null } | undefined;
     return {
       at,
       length,
       facts: () => {
-        if (!waited) {
-          waited = true;
-          const answer = this.answer(sequence);
-          facts = answer === undefined || answer.error !== undefined || answer.facts === undefined ? null : (answer.facts ?? undefined);
-          if (facts !== null) this.tails++;
+        if (!taken) {
+          // No answer: not available (null, the parser reads on); an answer of null: not plain (undefined).
+          const answer = wait();
+          taken = { facts: answer === undefined ? null : (answer.facts ?? undefined) };
         }
-        return facts;
+        return taken.facts;
       },
     };
   }

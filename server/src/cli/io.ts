@@ -13,7 +13,8 @@ export interface CliIo {
   readonly isTty: boolean;
   /**
    * The helper thread's script (dist/helper-worker.cjs beside the bundled CLI): with it, `analyze`
-   * and `check` read a large runs table on two threads (helper-thread.ts). Without it, on one.
+   * and `check` share a large file's reading and part of its analysis with a second thread
+   * (helper-thread.ts). Without it, all on one, with the same output.
    */
   readonly helperWorker?: string;
 }

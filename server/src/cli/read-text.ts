@@ -16,7 +16,11 @@ import { open } from "node:fs/promises";
 import { prepareParsing } from "../../../grammar/src/parse.js";
 import { Char } from "../../../grammar/src/char-codes.js";
 import type { EngineOptions } from "../analysis/engine-options.js";
-import { HELPER_THREAD_FROM_BYTES, HelperThread } from "./helper-thread.js";
+import { analyzeDocument } from "../analysis/analyze-document.js";
+import type { AnalysisSettings } from "../analysis/build-design.js";
+import type { DocumentAnalysis } from "../analysis/results.js";
+import { HELPER_THREAD_FROM_BYTES, HelperThread, reportHelperThread } from "./helper-thread.js";
+import type { CliIo } from "./io.js";
 
 /** The text of a file's bytes: a Latin-1 copy when all are ASCII, else UTF-8 decoding (`Buffer.toString`). */
 export function decodeText(bytes: Buffer, ascii = isAscii(bytes)): string {
@@ -36,13 +40,26 @@ export async function readTrialFile(path: string): Promise<string> {
   return (await readTrialForAnalysis(path, undefined)).text;
 }
 
-/** A `.trial` file read for analysis: its text, and for a large file the thread that helps read it. */
+/** A `.trial` file read for analysis: its text, and for a large file the thread that helps analyse it. */
 export interface TrialText {
   readonly text: string;
-  /** `close` it when done. */
+  /** `close` it when done (`analyzeTrialText` does). */
   readonly helper?: HelperThread;
-  /** What the engine is given (`engineOptions`). */
+  /** What the engine is given: the helper thread's jobs (empty without one). */
   readonly engine: EngineOptions;
+}
+
+/**
+ * `analyzeDocument` of a file read by `readTrialForAnalysis`, with its helper thread, which is closed
+ * after (and reported on stderr with `TRIALBOOK_DEBUG_HELPER_THREAD=1`).
+ */
+export function analyzeTrialText(read: TrialText, overrides: AnalysisSettings, io: Pick<CliIo, "env" | "stderr">): DocumentAnalysis {
+  try {
+    return analyzeDocument(read.text, {}, overrides, read.engine);
+  } finally {
+    read.helper?.close();
+    reportHelperThread(io.env, io.stderr, read.helper);
+  }
 }
 
 /**

@@ -99,9 +99,8 @@ function groupShape(context: ResponseContext, factors: readonly number[]): Omit<
   if (parts.some((p) => p === undefined)) return undefined;
   const sizes = parts.map((p) => p!.levels.length);
   const count = sizes.reduce((a, b) => a * b, 1);
-  // A single factor's groups are its compact codes (shared, never written); a crossing gets mixed-radix
-  // codes, one factor at a time over all observations (no closure per observation).
-  // Made already when the variance tests of these cells were started on another thread.
+  // A single factor's groups are its compact codes (shared, never written); a crossing's codes were made
+  // already when the variance tests of these cells were started on another thread.
   const codes = startedCrossedCodes(context.y, factors) ?? crossedCodes(parts.map((p) => p!.codes), sizes);
   const labels: string[] = [];
   const declared: number[] = [];
